@@ -1,0 +1,1 @@
+export { AppTabs as default } from '@/features/navigation/app-tabs';

@@ -1,0 +1,1 @@
+export { CollectionScreen as default } from '@/features/collections/collection-screen';

@@ -1,0 +1,131 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import pino, { type Logger } from 'pino';
+import { pinoHttp } from 'pino-http';
+import type { Database } from '../db/client';
+import { createAuth } from './auth';
+import type { AppContext } from './context';
+import { errorHandler, HttpError } from './errors';
+import { originCheck } from './middleware/origin';
+import { createRateLimits, type RateLimits } from './middleware/rate-limit';
+import { sessionMiddleware } from './middleware/session';
+import { authRoutes } from './routes/auth';
+import { collectionRoutes } from './routes/collections';
+import { healthRoutes } from './routes/health';
+
+export const JSON_BODY_LIMIT = '100kb';
+
+export interface AppOptions {
+  db: Database;
+  logger?: Logger;
+  rateLimits?: RateLimits;
+  /** Folder of the exported web build; when given, the same server serves the app. */
+  webRoot?: string;
+  /** Extra origins allowed to call the API with cookies (the Expo dev server in development). */
+  devOrigins?: string[];
+  /** Express's trust-proxy setting, for a server behind a TLS-terminating proxy. */
+  trustProxy?: boolean | number | string;
+}
+
+/** Builds the HTTP app without listening, so tests can drive it with supertest. */
+export function createApp(options: AppOptions): Express {
+  const logger = options.logger ?? pino({ level: 'silent' });
+  const ctx: AppContext = {
+    db: options.db,
+    auth: createAuth(options.db),
+    logger,
+    rateLimits: options.rateLimits ?? createRateLimits(),
+  };
+  const devOrigins = options.devOrigins ?? [];
+
+  const app = express();
+  app.disable('x-powered-by');
+  if (options.trustProxy !== undefined) app.set('trust proxy', options.trustProxy);
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          // CanvasKit (charts) compiles WebAssembly; nothing else is evaluated.
+          scriptSrc: ["'self'", "'wasm-unsafe-eval'"],
+          // react-native-web writes its style rules into a <style> element at run time.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          fontSrc: ["'self'", 'data:'],
+          connectSrc: ["'self'", ...devOrigins],
+          workerSrc: ["'self'", 'blob:'],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          formAction: ["'self'"],
+          frameAncestors: ["'none'"],
+        },
+      },
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      // Method, path and status only: headers carry session cookies.
+      serializers: {
+        req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+    }),
+  );
+
+  const api = express.Router();
+  if (devOrigins.length > 0) {
+    api.use((req, res, next) => {
+      const origin = req.get('origin');
+      if (origin && devOrigins.includes(origin)) {
+        res.set('Access-Control-Allow-Origin', origin);
+        res.set('Access-Control-Allow-Credentials', 'true');
+        res.set('Access-Control-Allow-Headers', 'Content-Type');
+        res.set('Access-Control-Allow-Methods', 'GET,POST,PUT,PATCH,DELETE');
+        res.set('Vary', 'Origin');
+        if (req.method === 'OPTIONS') return void res.status(204).end();
+      }
+      next();
+    });
+  }
+  api.use(express.json({ limit: JSON_BODY_LIMIT }));
+  api.use(originCheck(devOrigins));
+  api.use(sessionMiddleware(ctx.auth));
+  api.use(healthRoutes(ctx));
+  api.use(authRoutes(ctx));
+  api.use(collectionRoutes(ctx));
+  api.use((req, _res, next) => next(new HttpError(404, 'no_route', `No API route ${req.method} ${req.path}`)));
+  app.use('/api', api);
+
+  if (options.webRoot) serveWebBuild(app, options.webRoot);
+
+  app.use(errorHandler(logger));
+  return app;
+}
+
+/** Serves the exported single-page app: real files first, then index.html for any route. */
+function serveWebBuild(app: Express, webRoot: string): void {
+  const indexFile = path.join(webRoot, 'index.html');
+  if (!fs.existsSync(indexFile)) throw new Error(`No web build at ${webRoot}; run npm run build:web`);
+  app.use(
+    express.static(webRoot, {
+      index: false,
+      setHeaders: (res, file) => {
+        // Hashed bundles never change; everything else is revalidated.
+        if (file.includes(`${path.sep}_expo${path.sep}`) || file.includes(`${path.sep}assets${path.sep}`)) {
+          res.set('Cache-Control', 'public, max-age=31536000, immutable');
+        }
+      },
+    }),
+  );
+  app.get('/{*splat}', (_req, res) => {
+    res.set('Cache-Control', 'no-cache');
+    res.sendFile(indexFile);
+  });
+}

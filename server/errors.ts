@@ -1,0 +1,79 @@
+import type { ErrorRequestHandler } from 'express';
+import type { Logger } from 'pino';
+import { ZodError } from 'zod';
+import type { ErrorBody, FieldIssue } from '@/shared/schemas/errors';
+
+/** An error whose status, code and message are safe to show the person who caused it. */
+export class HttpError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly details?: FieldIssue[],
+  ) {
+    super(message);
+  }
+}
+
+export const notFound = (what = 'That record') => new HttpError(404, 'not_found', `${what} was not found`);
+
+/** Turns zod issues into `{ field, reason }` pairs; `prefix` names where the input came from. */
+export function fieldIssues(error: ZodError, prefix?: string): FieldIssue[] {
+  return error.issues.map((issue) => {
+    const field = issue.path.map(String).join('.') || (prefix ?? 'body');
+    return { field: prefix && issue.path.length > 0 ? `${prefix}.${field}` : field, reason: issue.message };
+  });
+}
+
+const DATABASE_DOWN_CODES = new Set(['ECONNREFUSED', 'CONNECT_TIMEOUT', 'ECONNRESET', 'CONNECTION_CLOSED', '57P01', '57P03']);
+
+function isDatabaseDown(error: unknown): boolean {
+  const code = (error as { code?: unknown } | null)?.code;
+  const cause = (error as { cause?: { code?: unknown } } | null)?.cause?.code;
+  return (
+    (typeof code === 'string' && DATABASE_DOWN_CODES.has(code)) ||
+    (typeof cause === 'string' && DATABASE_DOWN_CODES.has(cause))
+  );
+}
+
+function body(code: string, message: string, details?: FieldIssue[]): ErrorBody {
+  return { error: details ? { code, message, details } : { code, message } };
+}
+
+/** The one error handler: every failure leaves the server in the same body shape. */
+export function errorHandler(logger: Logger): ErrorRequestHandler {
+  return (error, req, res, _next) => {
+    if (res.headersSent) {
+      res.end();
+      return;
+    }
+    if (error instanceof HttpError) {
+      res.status(error.status).json(body(error.code, error.message, error.details));
+      return;
+    }
+    if (error instanceof ZodError) {
+      res.status(400).json(body('invalid_input', 'Some fields need attention', fieldIssues(error)));
+      return;
+    }
+    const type = (error as { type?: string }).type;
+    if (type === 'entity.too.large') {
+      res.status(413).json(body('too_large', 'The request is larger than the server accepts'));
+      return;
+    }
+    if (type === 'entity.parse.failed') {
+      res.status(400).json(body('malformed_json', 'The request body is not valid JSON', [{ field: 'body', reason: 'not valid JSON' }]));
+      return;
+    }
+    if (type === 'charset.unsupported' || type === 'encoding.unsupported') {
+      res.status(415).json(body('unsupported_encoding', 'The request body uses an unsupported encoding'));
+      return;
+    }
+    if (isDatabaseDown(error)) {
+      logger.error({ err: error, url: req.originalUrl }, 'database unavailable');
+      res.status(503).json(body('database_unavailable', 'The database is not answering; try again in a minute'));
+      return;
+    }
+    logger.error({ err: error, url: req.originalUrl }, 'unhandled error');
+    res.status(500).json(body('internal', 'Something went wrong on the server'));
+  };
+}

@@ -1,0 +1,59 @@
+import { ActivityIndicator, Pressable, StyleSheet, View, type PressableProps } from 'react-native';
+import { colors, radius, spacing, TOUCH_TARGET } from '@/theme';
+import { Text } from './text';
+
+type Tone = 'primary' | 'secondary' | 'danger' | 'quiet';
+
+export interface ButtonProps extends Omit<PressableProps, 'children'> {
+  label: string;
+  tone?: Tone;
+  loading?: boolean;
+}
+
+const TONES: Record<Tone, { background: string; pressed: string; text: 'onAccent' | 'accent' | 'danger' | 'text'; border: string }> = {
+  primary: { background: colors.accent, pressed: colors.accentPressed, text: 'onAccent', border: colors.accent },
+  secondary: { background: colors.surface, pressed: colors.accentSoft, text: 'accent', border: colors.accent },
+  danger: { background: colors.surface, pressed: colors.dangerSoft, text: 'danger', border: colors.danger },
+  quiet: { background: 'transparent', pressed: colors.surfaceMuted, text: 'accent', border: 'transparent' },
+};
+
+export function Button({ label, tone = 'primary', loading = false, disabled, style, ...rest }: ButtonProps) {
+  const look = TONES[tone];
+  const inactive = disabled || loading;
+  return (
+    <Pressable
+      accessibilityRole="button"
+      accessibilityLabel={label}
+      accessibilityState={{ disabled: !!inactive, busy: loading }}
+      disabled={inactive}
+      style={(state) => [
+        styles.base,
+        { backgroundColor: state.pressed ? look.pressed : look.background, borderColor: look.border },
+        inactive && styles.inactive,
+        typeof style === 'function' ? style(state) : style,
+      ]}
+      {...rest}
+    >
+      <View style={styles.row}>
+        {loading ? <ActivityIndicator size="small" color={colors[look.text]} /> : null}
+        <Text variant="label" color={look.text} style={styles.label}>
+          {label}
+        </Text>
+      </View>
+    </Pressable>
+  );
+}
+
+const styles = StyleSheet.create({
+  base: {
+    minHeight: TOUCH_TARGET,
+    paddingHorizontal: spacing.lg,
+    borderRadius: radius.md,
+    borderWidth: 1.5,
+    justifyContent: 'center',
+    alignItems: 'center',
+  },
+  row: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm },
+  label: { fontSize: 17 },
+  inactive: { opacity: 0.55 },
+});

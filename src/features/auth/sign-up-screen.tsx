@@ -1,0 +1,107 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { Link, useRouter } from 'expo-router';
+import { useState } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import type { z } from 'zod';
+import { useSignUpMutation } from '@/api/queries/session';
+import { Button } from '@/components/button';
+import { Text } from '@/components/text';
+import { TextField } from '@/components/text-field';
+import { PASSWORD_MIN_LENGTH, signUpInputSchema } from '@/shared/schemas/auth';
+import { spacing } from '@/theme';
+import { AuthFrame } from './auth-frame';
+import { FormError } from './form-error';
+import { applyServerErrors } from './use-server-errors';
+
+type Values = z.input<typeof signUpInputSchema>;
+
+export function SignUpScreen() {
+  const router = useRouter();
+  const signUp = useSignUpMutation();
+  const [formError, setFormError] = useState<string>();
+  const { control, handleSubmit, setError, formState } = useForm<Values, unknown, z.output<typeof signUpInputSchema>>({
+    resolver: zodResolver(signUpInputSchema),
+    defaultValues: { displayName: '', email: '', password: '' },
+  });
+
+  const submit = handleSubmit(async (values) => {
+    setFormError(undefined);
+    try {
+      await signUp.mutateAsync(values);
+      router.replace('/');
+    } catch (error) {
+      setFormError(applyServerErrors(error, ['displayName', 'email', 'password'], setError));
+    }
+  });
+
+  return (
+    <AuthFrame title="Create an account">
+      <Text color="textMuted">Your first collection is made for you; you can invite others to it later.</Text>
+      <FormError message={formError} />
+      <Controller
+        control={control}
+        name="displayName"
+        render={({ field, fieldState }) => (
+          <TextField
+            label="Your name"
+            testID="sign-up-name"
+            autoComplete="name"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+          />
+        )}
+      />
+      <Controller
+        control={control}
+        name="email"
+        render={({ field, fieldState }) => (
+          <TextField
+            label="E-mail"
+            testID="sign-up-email"
+            autoComplete="email"
+            inputMode="email"
+            autoCapitalize="none"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+          />
+        )}
+      />
+      <Controller
+        control={control}
+        name="password"
+        render={({ field, fieldState }) => (
+          <TextField
+            label="Password"
+            testID="sign-up-password"
+            autoComplete="new-password"
+            secureTextEntry
+            hint={`At least ${PASSWORD_MIN_LENGTH} characters; a short phrase is easy to remember.`}
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            onSubmitEditing={submit}
+          />
+        )}
+      />
+      <Button label="Create account" testID="sign-up-submit" onPress={submit} loading={formState.isSubmitting} />
+      <View style={styles.footer}>
+        <Text color="textMuted">Already have an account?</Text>
+        <Link href="/sign-in" testID="to-sign-in">
+          <Text color="accent" variant="bodyStrong">
+            Sign in
+          </Text>
+        </Link>
+      </View>
+    </AuthFrame>
+  );
+}
+
+const styles = StyleSheet.create({
+  footer: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm, alignItems: 'center' },
+});

@@ -1,0 +1,67 @@
+import { StyleSheet, View } from 'react-native';
+import { useSignOutMutation, useMeQuery } from '@/api/queries/session';
+import { Button } from '@/components/button';
+import { Card } from '@/components/card';
+import { Screen } from '@/components/screen';
+import { Text } from '@/components/text';
+import { ROLE_LABELS } from '@/lib/format';
+import { useIsWide } from '@/lib/use-is-wide';
+import { spacing } from '@/theme';
+import { useCurrentCollection } from './current-collection';
+import { CollectionSettings } from './components/collection-settings';
+import { MemberList } from './components/member-list';
+
+export function CollectionScreen() {
+  const wide = useIsWide();
+  const me = useMeQuery();
+  const signOut = useSignOutMutation();
+  const { collection, collections, select } = useCurrentCollection();
+
+  return (
+    <Screen title="Collection" subtitle={collection ? `${collection.name} · you are ${ROLE_LABELS[collection.role].toLowerCase()}` : undefined} testID="collection-screen">
+      <View style={[styles.columns, wide && styles.columnsWide]}>
+        <View style={styles.column}>
+          {collection ? <CollectionSettings collectionId={collection.id} /> : null}
+          {collections.length > 1 ? (
+            <Card title="Your collections">
+              {collections.map((c) => (
+                <View key={c.id} style={styles.switchRow}>
+                  <View style={styles.grow}>
+                    <Text variant="bodyStrong">{c.name}</Text>
+                    <Text variant="caption" color="textMuted">
+                      {ROLE_LABELS[c.role]}
+                    </Text>
+                  </View>
+                  {c.id === collection?.id ? (
+                    <Text variant="label" color="success">
+                      Open now
+                    </Text>
+                  ) : (
+                    <Button label={`Open ${c.name}`} tone="secondary" onPress={() => select(c.id)} />
+                  )}
+                </View>
+              ))}
+            </Card>
+          ) : null}
+        </View>
+        <View style={styles.column}>
+          {collection ? <MemberList collectionId={collection.id} myRole={collection.role} myUserId={me.data?.user.id} /> : null}
+          <Card title="Your account">
+            <Text>
+              Signed in as <Text variant="bodyStrong">{me.data?.user.displayName}</Text> ({me.data?.user.email})
+            </Text>
+            <Button label="Sign out" tone="secondary" testID="sign-out" loading={signOut.isPending} onPress={() => signOut.mutate()} />
+          </Card>
+        </View>
+      </View>
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  columns: { gap: spacing.lg },
+  columnsWide: { flexDirection: 'row', alignItems: 'flex-start' },
+  column: { flex: 1, gap: spacing.lg, minWidth: 0 },
+  switchRow: { flexDirection: 'row', alignItems: 'center', gap: spacing.md },
+  grow: { flex: 1 },
+});

@@ -1,0 +1,116 @@
+import { TabList, TabSlot, Tabs, TabTrigger, type TabTriggerSlotProps } from 'expo-router/ui';
+import { forwardRef } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import { useSafeAreaInsets } from 'react-native-safe-area-context';
+import { Text } from '@/components/text';
+import { useIsWide } from '@/lib/use-is-wide';
+import { colors, radius, spacing, TOUCH_TARGET } from '@/theme';
+import { useCurrentCollection } from '../collections/current-collection';
+
+const TABS = [
+  { name: 'today', href: '/', label: 'Today' },
+  { name: 'plants', href: '/plants', label: 'Plants' },
+  { name: 'rounds', href: '/rounds', label: 'Rounds' },
+  { name: 'calendar', href: '/calendar', label: 'Calendar' },
+  { name: 'collection', href: '/collection', label: 'Collection' },
+] as const;
+
+/** Bottom tab bar on a phone; a side rail with the collection's name from 900 px. */
+export function AppTabs() {
+  const wide = useIsWide();
+  const insets = useSafeAreaInsets();
+  const { collection } = useCurrentCollection();
+  return (
+    <Tabs style={[styles.root, wide && styles.rootWide]}>
+      <View style={styles.slot}>
+        <TabSlot />
+      </View>
+      <TabList
+        asChild
+        accessibilityRole="tablist"
+        aria-label="Sections"
+      >
+        <View style={[wide ? styles.rail : styles.bar, !wide && { paddingBottom: Math.max(insets.bottom, spacing.xs) }]}>
+          {wide ? (
+            <View style={styles.brand}>
+              <Text variant="title" color="onNav">
+                Sympodia
+              </Text>
+              {collection ? (
+                <Text variant="caption" color="onNavMuted" numberOfLines={2}>
+                  {collection.name}
+                </Text>
+              ) : null}
+            </View>
+          ) : null}
+          {TABS.map((tab) => (
+            <TabTrigger key={tab.name} name={tab.name} href={tab.href} asChild>
+              <TabButton label={tab.label} wide={wide} testID={`tab-${tab.name}`} />
+            </TabTrigger>
+          ))}
+        </View>
+      </TabList>
+    </Tabs>
+  );
+}
+
+const TabButton = forwardRef<View, TabTriggerSlotProps & { label: string; wide: boolean }>(function TabButton(
+  { label, wide, isFocused, ...props },
+  ref,
+) {
+  return (
+    <Pressable
+      ref={ref}
+      {...props}
+      accessibilityRole="tab"
+      accessibilityState={{ selected: !!isFocused }}
+      aria-current={isFocused ? 'page' : undefined}
+      style={[wide ? styles.railItem : styles.barItem, isFocused && (wide ? styles.railItemActive : styles.barItemActive)]}
+    >
+      <Text variant="label" color={isFocused ? 'onNav' : 'onNavMuted'} style={wide ? styles.railLabel : styles.barLabel}>
+        {label}
+      </Text>
+      {!wide ? <View style={[styles.marker, isFocused && styles.markerActive]} /> : null}
+    </Pressable>
+  );
+});
+
+const styles = StyleSheet.create({
+  root: { flex: 1, flexDirection: 'column', backgroundColor: colors.background },
+  rootWide: { flexDirection: 'row-reverse' },
+  slot: { flex: 1 },
+  bar: {
+    flexDirection: 'row',
+    backgroundColor: colors.nav,
+    paddingTop: spacing.xs,
+    paddingHorizontal: spacing.xs,
+  },
+  barItem: {
+    flex: 1,
+    minHeight: TOUCH_TARGET + 8,
+    alignItems: 'center',
+    justifyContent: 'center',
+    gap: spacing.xs,
+    borderRadius: radius.sm,
+  },
+  barItemActive: { backgroundColor: colors.navActive },
+  barLabel: { fontSize: 14 },
+  marker: { width: 20, height: 3, borderRadius: 2, backgroundColor: 'transparent' },
+  markerActive: { backgroundColor: colors.onNav },
+  rail: {
+    width: 232,
+    backgroundColor: colors.nav,
+    paddingVertical: spacing.xl,
+    paddingHorizontal: spacing.md,
+    gap: spacing.xs,
+  },
+  brand: { paddingHorizontal: spacing.md, paddingBottom: spacing.xl, gap: spacing.xs },
+  railItem: {
+    minHeight: TOUCH_TARGET,
+    justifyContent: 'center',
+    paddingHorizontal: spacing.md,
+    borderRadius: radius.md,
+  },
+  railItemActive: { backgroundColor: colors.navActive },
+  railLabel: { fontSize: 17 },
+});

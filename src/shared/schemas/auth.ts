@@ -1,0 +1,58 @@
+import { z } from 'zod';
+
+/** Fewer characters than this are refused; length matters more than symbols (NIST SP 800-63B). */
+export const PASSWORD_MIN_LENGTH = 10;
+export const PASSWORD_MAX_LENGTH = 200;
+
+export const emailSchema = z
+  .string({ error: 'Enter your e-mail address' })
+  .trim()
+  .toLowerCase()
+  .max(254, 'An e-mail address has at most 254 characters')
+  .pipe(z.email({ error: 'Enter a valid e-mail address' }));
+
+export const newPasswordSchema = z
+  .string({ error: 'Enter a password' })
+  .min(PASSWORD_MIN_LENGTH, `Use at least ${PASSWORD_MIN_LENGTH} characters`)
+  .max(PASSWORD_MAX_LENGTH, `Use at most ${PASSWORD_MAX_LENGTH} characters`);
+
+export const signUpInputSchema = z.object({
+  email: emailSchema,
+  password: newPasswordSchema,
+  displayName: z
+    .string({ error: 'Enter your name' })
+    .trim()
+    .min(1, 'Enter your name')
+    .max(80, 'A name has at most 80 characters'),
+});
+
+export const signInInputSchema = z.object({
+  email: emailSchema,
+  password: z.string({ error: 'Enter your password' }).min(1, 'Enter your password').max(PASSWORD_MAX_LENGTH),
+});
+
+export const roleSchema = z.enum(['owner', 'grower', 'viewer']);
+
+export const collectionSummarySchema = z.object({
+  id: z.uuid(),
+  name: z.string(),
+  role: roleSchema,
+});
+
+export const userSchema = z.object({
+  id: z.string(),
+  email: z.string(),
+  displayName: z.string(),
+});
+
+export const meSchema = z.object({
+  user: userSchema,
+  collections: z.array(collectionSummarySchema),
+});
+
+export type SignUpInput = z.infer<typeof signUpInputSchema>;
+export type SignInInput = z.infer<typeof signInInputSchema>;
+export type Role = z.infer<typeof roleSchema>;
+export type CollectionSummary = z.infer<typeof collectionSummarySchema>;
+export type User = z.infer<typeof userSchema>;
+export type Me = z.infer<typeof meSchema>;

@@ -1,0 +1,226 @@
+import { eq } from 'drizzle-orm';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { memberships, sessions, users } from '../../db/schema';
+import { createRateLimits } from '../../server/middleware/rate-limit';
+import { buildSignUp } from '../factories/users';
+import { rowCounts, testDb } from './support/database';
+import { browser, startTestServer, type TestServer } from './support/server';
+
+let server: TestServer;
+
+beforeAll(async () => {
+  server = await startTestServer();
+});
+afterAll(async () => {
+  await server.close();
+});
+
+describe('sign-up', () => {
+  it('creates the account, its first collection as owner, and a session', async () => {
+    const person = browser(server.url);
+    const input = buildSignUp({ email: 'Mixed.Case@Example.TEST ' });
+    const res = await person.post('/api/auth/sign-up', input);
+    expect(res.status).toBe(201);
+    expect(res.body.user.email).toBe('mixed.case@example.test');
+    expect(res.body.collections).toHaveLength(1);
+    expect(res.body.collections[0].role).toBe('owner');
+
+    const [row] = await testDb().select().from(users).where(eq(users.email, 'mixed.case@example.test'));
+    expect(row.passwordHash).toMatch(/^\$argon2id\$/);
+    expect(row.passwordHash).not.toContain(input.password);
+    const owned = await testDb().select().from(memberships).where(eq(memberships.userId, row.id));
+    expect(owned).toEqual([expect.objectContaining({ role: 'owner' })]);
+
+    const me = await person.get('/api/me');
+    expect(me.status).toBe(200);
+    expect(me.body.user.displayName).toBe(input.displayName);
+  });
+
+  it('sets an HttpOnly, SameSite=Lax session cookie, not Secure over plain http', async () => {
+    const res = await browser(server.url).post('/api/auth/sign-up', buildSignUp());
+    const cookie = (res.headers['set-cookie'] as unknown as string[]).find((c) => c.startsWith('sympodia_session='))!;
+    expect(cookie).toMatch(/HttpOnly/i);
+    expect(cookie).toMatch(/SameSite=Lax/i);
+    expect(cookie).not.toMatch(/Secure/i);
+  });
+
+  it('marks the cookie Secure when the request came over HTTPS through a trusted proxy', async () => {
+    const proxied = await startTestServer({ trustProxy: true });
+    try {
+      const supertest = (await import('supertest')).default;
+      const host = new URL(proxied.url).host;
+      const ok = await supertest(proxied.url)
+        .post('/api/auth/sign-up')
+        .set('X-Forwarded-Proto', 'https')
+        .set('Origin', `https://${host}`)
+        .send(buildSignUp());
+      expect(ok.status).toBe(201);
+      const cookie = (ok.headers['set-cookie'] as unknown as string[]).find((c) => c.startsWith('sympodia_session='))!;
+      expect(cookie).toMatch(/; Secure/i);
+      // Once the proxy says https, the origin check expects an https Origin too.
+      const plainOrigin = await supertest(proxied.url)
+        .post('/api/auth/sign-up')
+        .set('X-Forwarded-Proto', 'https')
+        .set('Origin', `http://${host}`)
+        .send(buildSignUp());
+      expect(plainOrigin.status).toBe(403);
+    } finally {
+      await proxied.close();
+    }
+  });
+
+  it.each([
+    ['a malformed e-mail', { email: 'not-an-address' }, 'email', /valid e-mail/],
+    ['a short password', { password: 'short' }, 'password', /at least 10/],
+    ['a common password', { password: 'qwertyuiop' }, 'password', /commonly used/],
+    ['a missing name', { displayName: undefined }, 'displayName', /name/i],
+    ['a number for the e-mail', { email: 12345 }, 'email', /e-mail/i],
+    ['an empty name', { displayName: '   ' }, 'displayName', /name/i],
+  ])('refuses %s with 400 naming the field, and writes nothing', async (_label, override, field, reason) => {
+    const before = await rowCounts();
+    const res = await browser(server.url).post('/api/auth/sign-up', { ...buildSignUp(), ...override });
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('invalid_input');
+    const detail = res.body.error.details.find((d: { field: string }) => d.field === field);
+    expect(detail?.reason).toMatch(reason);
+    expect(await rowCounts()).toEqual(before);
+  });
+
+  it('refuses a body that is not an object', async () => {
+    const before = await rowCounts();
+    const res = await browser(server.url).post('/api/auth/sign-up', ['a', 'list']);
+    expect(res.status).toBe(400);
+    expect(await rowCounts()).toEqual(before);
+  });
+
+  it('refuses malformed JSON with 400', async () => {
+    const supertest = (await import('supertest')).default;
+    const res = await supertest(server.url)
+      .post('/api/auth/sign-up')
+      .set('Origin', server.url)
+      .set('Content-Type', 'application/json')
+      .send('{"email": ');
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('malformed_json');
+  });
+
+  it('refuses a body over the size limit with 413 and writes nothing', async () => {
+    const before = await rowCounts();
+    const res = await browser(server.url).post('/api/auth/sign-up', { ...buildSignUp(), displayName: 'x'.repeat(200_000) });
+    expect(res.status).toBe(413);
+    expect(res.body.error.code).toBe('too_large');
+    expect(await rowCounts()).toEqual(before);
+  });
+
+  it('answers a duplicate e-mail with 409 and writes nothing', async () => {
+    const input = buildSignUp();
+    expect((await browser(server.url).post('/api/auth/sign-up', input)).status).toBe(201);
+    const before = await rowCounts();
+    const res = await browser(server.url).post('/api/auth/sign-up', { ...input, email: input.email.toUpperCase() });
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('email_taken');
+    expect(await rowCounts()).toEqual(before);
+  });
+});
+
+describe('sign-in and sign-out', () => {
+  it('signs in with the right password, with a new session id each time', async () => {
+    const input = buildSignUp();
+    const first = browser(server.url);
+    await first.post('/api/auth/sign-up', input);
+    const cookieAfterSignUp = first.cookie;
+
+    const res = await first.post('/api/auth/sign-in', { email: input.email, password: input.password });
+    expect(res.status).toBe(200);
+    expect(first.cookie).toBeDefined();
+    expect(first.cookie).not.toBe(cookieAfterSignUp);
+    // The session it replaced no longer works.
+    expect((await browser(server.url, cookieAfterSignUp).get('/api/me')).status).toBe(401);
+    expect((await first.get('/api/me')).status).toBe(200);
+  });
+
+  it('refuses a wrong password and an unknown account with the same 401', async () => {
+    const input = buildSignUp();
+    await browser(server.url).post('/api/auth/sign-up', input);
+    const wrong = await browser(server.url).post('/api/auth/sign-in', { email: input.email, password: 'wrong-password-123' });
+    const unknown = await browser(server.url).post('/api/auth/sign-in', { email: 'nobody@example.test', password: 'wrong-password-123' });
+    expect(wrong.status).toBe(401);
+    expect(unknown.status).toBe(401);
+    expect(wrong.body.error.message).toBe(unknown.body.error.message);
+  });
+
+  it('sign-out ends the session in the database', async () => {
+    const person = browser(server.url);
+    await person.post('/api/auth/sign-up', buildSignUp());
+    const cookie = person.cookie!;
+    const sessionId = cookie.split('=')[1];
+    expect(await testDb().select().from(sessions).where(eq(sessions.id, sessionId))).toHaveLength(1);
+    expect((await person.post('/api/auth/sign-out')).status).toBe(204);
+    expect(await testDb().select().from(sessions).where(eq(sessions.id, sessionId))).toHaveLength(0);
+    expect((await browser(server.url, cookie).get('/api/me')).status).toBe(401);
+  });
+
+  it('a session survives a server restart (sessions live in PostgreSQL)', async () => {
+    const person = browser(server.url);
+    await person.post('/api/auth/sign-up', buildSignUp());
+    const restarted = await startTestServer();
+    try {
+      const res = await browser(restarted.url, person.cookie).get('/api/me');
+      expect(res.status).toBe(200);
+    } finally {
+      await restarted.close();
+    }
+  });
+
+  it('anonymous requests to /api/me get 401', async () => {
+    const res = await browser(server.url).get('/api/me');
+    expect(res.status).toBe(401);
+    expect(res.body.error.code).toBe('signed_out');
+  });
+});
+
+describe('cross-site request defence', () => {
+  it('refuses a state-changing request from another origin or without an Origin', async () => {
+    const supertest = (await import('supertest')).default;
+    const foreign = await supertest(server.url).post('/api/auth/sign-up').set('Origin', 'https://elsewhere.example').send(buildSignUp());
+    expect(foreign.status).toBe(403);
+    expect(foreign.body.error.code).toBe('origin_refused');
+    const missing = await supertest(server.url).post('/api/auth/sign-up').send(buildSignUp());
+    expect(missing.status).toBe(403);
+  });
+});
+
+describe('rate limits', () => {
+  it('limits sign-in attempts per account', async () => {
+    const limited = await startTestServer({ rateLimits: createRateLimits({ perIp: 1000, perAccount: 3, windowSeconds: 60 }) });
+    try {
+      const input = buildSignUp();
+      await browser(limited.url).post('/api/auth/sign-up', input);
+      const statuses: number[] = [];
+      for (let i = 0; i < 4; i += 1) {
+        statuses.push((await browser(limited.url).post('/api/auth/sign-in', { email: input.email, password: 'not-the-password' })).status);
+      }
+      expect(statuses).toEqual([401, 401, 401, 429]);
+      // Even the right password waits now: the account is being guessed at.
+      const right = await browser(limited.url).post('/api/auth/sign-in', { email: input.email, password: input.password });
+      expect(right.status).toBe(429);
+      expect(right.body.error.code).toBe('rate_limited');
+    } finally {
+      await limited.close();
+    }
+  });
+
+  it('limits sign-in and sign-up attempts per client address', async () => {
+    const limited = await startTestServer({ rateLimits: createRateLimits({ perIp: 2, perAccount: 1000, windowSeconds: 60 }) });
+    try {
+      const statuses: number[] = [];
+      for (let i = 0; i < 3; i += 1) {
+        statuses.push((await browser(limited.url).post('/api/auth/sign-in', { email: `p${i}@example.test`, password: 'whatever-123' })).status);
+      }
+      expect(statuses).toEqual([401, 401, 429]);
+      expect((await browser(limited.url).post('/api/auth/sign-up', buildSignUp())).status).toBe(429);
+    } finally {
+      await limited.close();
+    }
+  });
+});
