@@ -74,8 +74,9 @@ export function authRoutes(ctx: AppContext): Router {
     res.status(204).end();
   });
 
-  router.get('/me', requireUser, async (_req, res) => {
-    res.json(await me(res.locals.user!));
+  // Public: answers 200 either way, so a signed-out browser sees no failed request.
+  router.get('/session', async (_req, res) => {
+    res.json({ me: res.locals.user ? await me(res.locals.user) : null });
   });
 
   /** Ends any session this browser already had, so sign-in always yields a new id. */

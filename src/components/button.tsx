@@ -24,6 +24,7 @@ export function Button({ label, tone = 'primary', loading = false, disabled, sty
     <Pressable
       accessibilityRole="button"
       accessibilityLabel={label}
+      {...rest}
       accessibilityState={{ disabled: !!inactive, busy: loading }}
       disabled={inactive}
       style={(state) => [
@@ -32,7 +33,6 @@ export function Button({ label, tone = 'primary', loading = false, disabled, sty
         inactive && styles.inactive,
         typeof style === 'function' ? style(state) : style,
       ]}
-      {...rest}
     >
       <View style={styles.row}>
         {loading ? <ActivityIndicator size="small" color={colors[look.text]} /> : null}

@@ -31,9 +31,9 @@ describe('sign-up', () => {
     const owned = await testDb().select().from(memberships).where(eq(memberships.userId, row.id));
     expect(owned).toEqual([expect.objectContaining({ role: 'owner' })]);
 
-    const me = await person.get('/api/me');
-    expect(me.status).toBe(200);
-    expect(me.body.user.displayName).toBe(input.displayName);
+    const session = await person.get('/api/session');
+    expect(session.status).toBe(200);
+    expect(session.body.me.user.displayName).toBe(input.displayName);
   });
 
   it('sets an HttpOnly, SameSite=Lax session cookie, not Secure over plain http', async () => {
@@ -135,8 +135,8 @@ describe('sign-in and sign-out', () => {
     expect(first.cookie).toBeDefined();
     expect(first.cookie).not.toBe(cookieAfterSignUp);
     // The session it replaced no longer works.
-    expect((await browser(server.url, cookieAfterSignUp).get('/api/me')).status).toBe(401);
-    expect((await first.get('/api/me')).status).toBe(200);
+    expect((await browser(server.url, cookieAfterSignUp).get('/api/session')).body.me).toBeNull();
+    expect((await first.get('/api/session')).body.me).not.toBeNull();
   });
 
   it('refuses a wrong password and an unknown account with the same 401', async () => {
@@ -157,7 +157,7 @@ describe('sign-in and sign-out', () => {
     expect(await testDb().select().from(sessions).where(eq(sessions.id, sessionId))).toHaveLength(1);
     expect((await person.post('/api/auth/sign-out')).status).toBe(204);
     expect(await testDb().select().from(sessions).where(eq(sessions.id, sessionId))).toHaveLength(0);
-    expect((await browser(server.url, cookie).get('/api/me')).status).toBe(401);
+    expect((await browser(server.url, cookie).get('/api/session')).body.me).toBeNull();
   });
 
   it('a session survives a server restart (sessions live in PostgreSQL)', async () => {
@@ -165,17 +165,24 @@ describe('sign-in and sign-out', () => {
     await person.post('/api/auth/sign-up', buildSignUp());
     const restarted = await startTestServer();
     try {
-      const res = await browser(restarted.url, person.cookie).get('/api/me');
-      expect(res.status).toBe(200);
+      const res = await browser(restarted.url, person.cookie).get('/api/session');
+      expect(res.body.me.user).toBeDefined();
     } finally {
       await restarted.close();
     }
   });
 
-  it('anonymous requests to /api/me get 401', async () => {
-    const res = await browser(server.url).get('/api/me');
-    expect(res.status).toBe(401);
-    expect(res.body.error.code).toBe('signed_out');
+  it('a browser without a session is told so with 200 and me: null', async () => {
+    const res = await browser(server.url).get('/api/session');
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual({ me: null });
+  });
+
+  it('a forged or expired session cookie is cleared', async () => {
+    const res = await browser(server.url, 'sympodia_session=forgedvalue').get('/api/session');
+    expect(res.body).toEqual({ me: null });
+    const cleared = (res.headers['set-cookie'] as unknown as string[]).find((c) => c.startsWith('sympodia_session='));
+    expect(cleared).toMatch(/^sympodia_session=;/);
   });
 });
 

@@ -25,7 +25,7 @@ describe('GET /api/health', () => {
       const res = await browser(down.url).get('/api/health');
       expect(res.status).toBe(503);
       expect(res.body).toEqual({ status: 'degraded', database: 'down' });
-      const me = await browser(down.url, 'sympodia_session=abc').get('/api/me');
+      const me = await browser(down.url, 'sympodia_session=abc').get('/api/session');
       expect(me.status).toBe(503);
       expect(me.body.error.code).toBe('database_unavailable');
     } finally {

@@ -1,21 +1,23 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { meSchema, type Me, type SignInInput, type SignUpInput } from '@/shared/schemas/auth';
-import { ApiError, request } from '../client';
+import { QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { meSchema, sessionSchema, type Me, type SignInInput, type SignUpInput } from '@/shared/schemas/auth';
+import { request } from '../client';
 
 export const sessionKeys = { me: ['me'] as const };
+
+/**
+ * Switches the cache to another person (or to nobody): the session query keeps its
+ * observers so guarded layouts redirect at once, and every other cached record goes.
+ */
+function switchPerson(client: QueryClient, me: Me | null) {
+  client.setQueryData(sessionKeys.me, me);
+  client.removeQueries({ predicate: (query) => query.queryKey[0] !== sessionKeys.me[0] });
+}
 
 /** The signed-in person and their collections; `null` when signed out. */
 export function useMeQuery() {
   return useQuery({
     queryKey: sessionKeys.me,
-    queryFn: async (): Promise<Me | null> => {
-      try {
-        return await request('/me', { schema: meSchema });
-      } catch (error) {
-        if (error instanceof ApiError && error.status === 401) return null;
-        throw error;
-      }
-    },
+    queryFn: async (): Promise<Me | null> => (await request('/session', { schema: sessionSchema })).me,
   });
 }
 
@@ -23,10 +25,7 @@ export function useSignInMutation() {
   const client = useQueryClient();
   return useMutation({
     mutationFn: (input: SignInInput) => request('/auth/sign-in', { method: 'POST', body: input, schema: meSchema }),
-    onSuccess: (me) => {
-      client.clear();
-      client.setQueryData(sessionKeys.me, me);
-    },
+    onSuccess: (me) => switchPerson(client, me),
   });
 }
 
@@ -34,10 +33,7 @@ export function useSignUpMutation() {
   const client = useQueryClient();
   return useMutation({
     mutationFn: (input: SignUpInput) => request('/auth/sign-up', { method: 'POST', body: input, schema: meSchema }),
-    onSuccess: (me) => {
-      client.clear();
-      client.setQueryData(sessionKeys.me, me);
-    },
+    onSuccess: (me) => switchPerson(client, me),
   });
 }
 
@@ -45,9 +41,6 @@ export function useSignOutMutation() {
   const client = useQueryClient();
   return useMutation({
     mutationFn: () => request('/auth/sign-out', { method: 'POST' }),
-    onSettled: () => {
-      client.clear();
-      client.setQueryData(sessionKeys.me, null);
-    },
+    onSettled: () => switchPerson(client, null),
   });
 }

@@ -21,16 +21,15 @@ export function AppTabs() {
   const insets = useSafeAreaInsets();
   const { collection } = useCurrentCollection();
   return (
-    <Tabs style={[styles.root, wide && styles.rootWide]}>
+    <Tabs style={StyleSheet.flatten([styles.root, wide && styles.rootWide])}>
       <View style={styles.slot}>
         <TabSlot />
       </View>
       <TabList
-        asChild
         accessibilityRole="tablist"
         aria-label="Sections"
+        style={StyleSheet.flatten([wide ? styles.rail : styles.bar, !wide && { paddingBottom: Math.max(insets.bottom, spacing.xs) }])}
       >
-        <View style={[wide ? styles.rail : styles.bar, !wide && { paddingBottom: Math.max(insets.bottom, spacing.xs) }]}>
           {wide ? (
             <View style={styles.brand}>
               <Text variant="title" color="onNav">
@@ -48,7 +47,6 @@ export function AppTabs() {
               <TabButton label={tab.label} wide={wide} testID={`tab-${tab.name}`} />
             </TabTrigger>
           ))}
-        </View>
       </TabList>
     </Tabs>
   );
@@ -65,7 +63,7 @@ const TabButton = forwardRef<View, TabTriggerSlotProps & { label: string; wide: 
       accessibilityRole="tab"
       accessibilityState={{ selected: !!isFocused }}
       aria-current={isFocused ? 'page' : undefined}
-      style={[wide ? styles.railItem : styles.barItem, isFocused && (wide ? styles.railItemActive : styles.barItemActive)]}
+      style={StyleSheet.flatten([wide ? styles.railItem : styles.barItem, isFocused && (wide ? styles.railItemActive : styles.barItemActive)])}
     >
       <Text variant="label" color={isFocused ? 'onNav' : 'onNavMuted'} style={wide ? styles.railLabel : styles.barLabel}>
         {label}
@@ -87,6 +85,7 @@ const styles = StyleSheet.create({
   },
   barItem: {
     flex: 1,
+    flexDirection: 'column',
     minHeight: TOUCH_TARGET + 8,
     alignItems: 'center',
     justifyContent: 'center',
@@ -98,6 +97,8 @@ const styles = StyleSheet.create({
   marker: { width: 20, height: 3, borderRadius: 2, backgroundColor: 'transparent' },
   markerActive: { backgroundColor: colors.onNav },
   rail: {
+    flexDirection: 'column',
+    justifyContent: 'flex-start',
     width: 232,
     backgroundColor: colors.nav,
     paddingVertical: spacing.xl,
@@ -106,8 +107,10 @@ const styles = StyleSheet.create({
   },
   brand: { paddingHorizontal: spacing.md, paddingBottom: spacing.xl, gap: spacing.xs },
   railItem: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    justifyContent: 'flex-start',
     minHeight: TOUCH_TARGET,
-    justifyContent: 'center',
     paddingHorizontal: spacing.md,
     borderRadius: radius.md,
   },

@@ -50,6 +50,9 @@ export const meSchema = z.object({
   collections: z.array(collectionSummarySchema),
 });
 
+/** GET /api/session: who is signed in in this browser, or `me: null`. */
+export const sessionSchema = z.object({ me: meSchema.nullable() });
+
 export type SignUpInput = z.infer<typeof signUpInputSchema>;
 export type SignInInput = z.infer<typeof signInInputSchema>;
 export type Role = z.infer<typeof roleSchema>;

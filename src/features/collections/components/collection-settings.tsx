@@ -59,7 +59,8 @@ function SettingsForm({ collection }: { collection: Collection }) {
         </Text>
         <View style={styles.stepper}>
           <Button
-            label="Earlier month"
+            label="‹"
+            accessibilityLabel="Earlier month"
             tone="secondary"
             disabled={!canEdit}
             onPress={() => setSeasonStartMonth((m) => (m === 1 ? 12 : m - 1))}
@@ -68,7 +69,8 @@ function SettingsForm({ collection }: { collection: Collection }) {
             {monthName(seasonStartMonth)}
           </Text>
           <Button
-            label="Later month"
+            label="›"
+            accessibilityLabel="Later month"
             tone="secondary"
             disabled={!canEdit}
             onPress={() => setSeasonStartMonth((m) => (m === 12 ? 1 : m + 1))}
@@ -102,7 +104,7 @@ function SettingsForm({ collection }: { collection: Collection }) {
 const styles = StyleSheet.create({
   form: { gap: spacing.lg },
   field: { gap: spacing.sm },
-  stepper: { flexDirection: 'row', alignItems: 'center', gap: spacing.md, flexWrap: 'wrap' },
+  stepper: { flexDirection: 'row', alignItems: 'center', gap: spacing.md },
   month: { minWidth: 96, textAlign: 'center' },
   actions: { flexDirection: 'row', alignItems: 'center', gap: spacing.md },
 });

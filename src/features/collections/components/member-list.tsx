@@ -53,7 +53,7 @@ export function MemberList({ collectionId, myRole, myUserId }: { collectionId: s
               />
             ))}
             <Text variant="caption" color="textMuted">
-              Inviting people by e-mail is on its way; until then, each person signs up and an owner adds them.
+              Inviting people by e-mail is not available yet.
             </Text>
           </View>
         )}

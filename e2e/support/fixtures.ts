@@ -1,0 +1,40 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { test as base, expect, type Page } from '@playwright/test';
+
+const ARTIFACTS = path.join(__dirname, '..', 'artifacts');
+
+/**
+ * Every page fails its test on a console error, an uncaught exception, or a request
+ * that leaves this machine (fonts and assets must ship with the app). The one console
+ * error allowed is Chromium's note about an API refusal below 500 (a wrong password is
+ * answered 401 by design); a 5xx or a failed asset still fails the test.
+ */
+export const test = base.extend<{ page: Page }>({
+  page: async ({ page }, use) => {
+    const problems: string[] = [];
+    page.on('console', (message) => {
+      if (message.type() !== 'error') return;
+      const refusal = /^Failed to load resource: the server responded with a status of (4\d\d)/.exec(message.text());
+      if (refusal && new URL(message.location().url).pathname.startsWith('/api/')) return;
+      problems.push(`console error: ${message.text()} (${message.location().url})`);
+    });
+    page.on('pageerror', (error) => problems.push(`page error: ${error.message}`));
+    page.on('request', (request) => {
+      const { hostname, protocol } = new URL(request.url());
+      if ((protocol === 'http:' || protocol === 'https:') && hostname !== '127.0.0.1') {
+        problems.push(`request left the machine: ${request.url()}`);
+      }
+    });
+    await use(page);
+    expect(problems, problems.join('\n')).toEqual([]);
+  },
+});
+
+/** Saves a screenshot of the viewport as an artifact named after the screen and width. */
+export async function keepScreenshot(page: Page, name: string, project: string): Promise<void> {
+  fs.mkdirSync(ARTIFACTS, { recursive: true });
+  await page.screenshot({ path: path.join(ARTIFACTS, `${project}-${name}.png`) });
+}
+
+export { expect };

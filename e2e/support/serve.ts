@@ -1,0 +1,42 @@
+import path from 'node:path';
+import postgres from 'postgres';
+import pino from 'pino';
+import { createDatabase } from '../../db/client';
+import { runMigrations } from '../../db/migrate';
+import { seedDemo } from '../../db/seed';
+import { createApp } from '../../server/app';
+import { E2E_DATABASE, E2E_PORT } from './constants';
+
+/**
+ * The browser tests' server: the production web build and the real API on one loopback
+ * port, over a freshly created and seeded database in the test cluster.
+ */
+async function main() {
+  const adminUrl = process.env.TEST_DATABASE_URL;
+  if (!adminUrl) throw new Error('TEST_DATABASE_URL is not set: run the browser tests through npm test');
+  const admin = postgres(adminUrl, { max: 1, onnotice: () => {} });
+  await admin.unsafe(`drop database if exists ${E2E_DATABASE} with (force)`);
+  await admin.unsafe(`create database ${E2E_DATABASE}`);
+  await admin.end();
+
+  const url = new URL(adminUrl);
+  url.pathname = `/${E2E_DATABASE}`;
+  await runMigrations(url.toString());
+  const database = createDatabase(url.toString());
+  await seedDemo(database.db, { log: () => {} });
+
+  const app = createApp({
+    db: database.db,
+    logger: pino({ level: 'warn' }),
+    webRoot: path.join(__dirname, '..', '..', 'dist'),
+  });
+  const server = app.listen(E2E_PORT, '127.0.0.1');
+  const stop = () => server.close(() => database.close().then(() => process.exit(0)));
+  process.on('SIGTERM', stop);
+  process.on('SIGINT', stop);
+}
+
+main().catch((error) => {
+  console.error(error);
+  process.exit(1);
+});

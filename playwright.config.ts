@@ -1,0 +1,45 @@
+import { defineConfig } from '@playwright/test';
+import { E2E_PORT } from './e2e/support/constants';
+
+/** Debian's Chromium; Playwright never downloads a browser of its own here. */
+const chromium = {
+  executablePath: '/usr/bin/chromium',
+  args: [
+    '--no-sandbox',
+    '--disable-gpu',
+    '--disable-background-networking',
+    '--disable-component-update',
+    '--disable-sync',
+    '--no-first-run',
+    '--disable-quic',
+  ],
+};
+
+export default defineConfig({
+  testDir: 'e2e',
+  outputDir: 'test-results',
+  fullyParallel: false,
+  workers: 1,
+  retries: 0,
+  timeout: 60_000,
+  expect: { timeout: 10_000 },
+  reporter: [['list']],
+  use: {
+    baseURL: `http://127.0.0.1:${E2E_PORT}`,
+    launchOptions: chromium,
+    trace: 'off',
+    screenshot: 'only-on-failure',
+  },
+  projects: [
+    { name: 'phone', use: { viewport: { width: 390, height: 844 }, isMobile: false, hasTouch: true } },
+    { name: 'desktop', use: { viewport: { width: 1280, height: 800 } } },
+  ],
+  webServer: {
+    command: 'tsx e2e/support/serve.ts',
+    url: `http://127.0.0.1:${E2E_PORT}/api/health`,
+    reuseExistingServer: false,
+    timeout: 120_000,
+    stdout: 'ignore',
+    stderr: 'pipe',
+  },
+});
