@@ -23,8 +23,9 @@ if [ -n "${DATABASE_URL:-}" ] && [ "$instance" = dev ]; then
   exit 0
 fi
 
+# Runs from / so the postgres user never needs to enter the clone's folder.
 as_postgres() {
-  if [ "$(id -u)" = 0 ]; then runuser -u postgres -- "$@"; else "$@"; fi
+  if [ "$(id -u)" = 0 ]; then (cd / && runuser -u postgres -- "$@"); else "$@"; fi
 }
 
 find_bindir() {
