@@ -1,0 +1,171 @@
+/**
+ * Today's attention list for a collection: leads due for measuring, stalled or aborted leads,
+ * sheaths to check, and bloom windows opening soon — each with its reason and a link target.
+ */
+import { forecastBloom, type BloomHistory } from './bloom-window';
+import { addDays, daysBetween, isIsoDate } from './dates';
+import { leadFlags, type LeadFlag } from './flags';
+import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
+import { fitLeadCurve, type LeadShape } from './growth-curve';
+import type { IsoDate, Measurement, Plant } from './types';
+
+/** A growing lead is due for measuring after this many days — common practice (a round every two weeks). */
+export const MEASURE_EVERY_DAYS = 14;
+/** A forming or empty sheath is due for a look after this many days — common practice (weekly). */
+export const SHEATH_CHECK_DAYS = 7;
+/** Bloom windows whose earliest date falls within this many days are listed. */
+export const BLOOM_LOOKAHEAD_DAYS = 14;
+/** Bloom windows less likely than this are left off the list (chosen). */
+export const BLOOM_MIN_CHANCE = 0.2;
+/** Earlier leads fitted for a plant's shape (the most recent seasons), to bound the work. */
+export const SHAPE_SEASONS = 3;
+
+export type AttentionKind = 'aborted' | 'stalled' | 'sheath' | 'bloom' | 'measure';
+
+export interface AttentionItem {
+  kind: AttentionKind;
+  /** Where the item links to. */
+  target: { plantId: string; leadId: string };
+  reason: string;
+  /** The date the item is about (bloom window start, last measurement, …), if any. */
+  date: IsoDate | null;
+  flag?: LeadFlag;
+}
+
+export interface AttentionPlant {
+  plant: Plant;
+  leads: readonly BloomHistory[];
+  /** Fitted shapes of the plant's earlier leads; computed here when absent. */
+  priorShapes?: readonly LeadShape[];
+}
+
+export interface AttentionOptions {
+  measureEveryDays?: number;
+  sheathCheckDays?: number;
+  bloomLookaheadDays?: number;
+  genusDefaults?: (genus: string) => GenusDefaults;
+}
+
+const ORDER: Record<AttentionKind, number> = { aborted: 0, stalled: 1, sheath: 2, bloom: 3, measure: 4 };
+
+function latestMeasurement(h: BloomHistory, today: IsoDate): Measurement | null {
+  let best: Measurement | null = null;
+  for (const m of h.measurements) {
+    if (m.leadId !== h.lead.id || !isIsoDate(m.date) || m.date > today) continue;
+    if (!best || m.date > best.date) best = m;
+  }
+  return best;
+}
+
+/**
+ * Shapes (midpoint, scale, mature height) of a plant's finished earlier leads that support a free
+ * logistic fit, from the `SHAPE_SEASONS` most recent seasons before `beforeSeason`.
+ */
+export function earlierLeadShapes(leads: readonly BloomHistory[], genus: GenusDefaults, beforeSeason: number, today: IsoDate): LeadShape[] {
+  const seasons = [...new Set(leads.map((h) => h.lead.season).filter((s) => s < beforeSeason))].sort((a, b) => b - a).slice(0, SHAPE_SEASONS);
+  const shapes: LeadShape[] = [];
+  for (const h of leads) {
+    if (!seasons.includes(h.lead.season) || h.lead.status === 'growing') continue;
+    const fit = fitLeadCurve(h.measurements, h.lead, { genusDefaults: genus, today });
+    if (fit.method === 'free') shapes.push({ midpointDays: fit.midpointDays, scaleDays: fit.scaleDays, matureHeightMm: fit.matureHeightMm });
+  }
+  return shapes;
+}
+
+/**
+ * The attention list for `today`, most urgent first (aborted, stalled, sheaths, bloom windows,
+ * measuring), then by plant and lead id. Only each plant's current leads are considered: those of
+ * its latest season, and any lead still growing. Items:
+ * - measure: a growing lead with no measurement in `measureEveryDays` (counted from first seen
+ *   when never measured);
+ * - aborted / stalled: `leadFlags` for the lead;
+ * - sheath: the latest measurement shows a forming or empty sheath, no buds recorded, and it is at
+ *   least `sheathCheckDays` old;
+ * - bloom: the bloom window's earliest date (10th percentile) falls between today and
+ *   `bloomLookaheadDays` ahead, for a lead not yet in flower.
+ */
+export function attentionList(plants: readonly AttentionPlant[], today: IsoDate, options: AttentionOptions = {}): AttentionItem[] {
+  const measureEvery = options.measureEveryDays ?? MEASURE_EVERY_DAYS;
+  const sheathEvery = options.sheathCheckDays ?? SHEATH_CHECK_DAYS;
+  const lookahead = options.bloomLookaheadDays ?? BLOOM_LOOKAHEAD_DAYS;
+  const horizon = addDays(today, lookahead);
+  const items: AttentionItem[] = [];
+
+  for (const { plant, leads, priorShapes } of plants) {
+    const genus = (options.genusDefaults ?? genusDefaultsFor)(plant.genus);
+    const visible = leads.filter((h) => isIsoDate(h.lead.firstSeen) && h.lead.firstSeen <= today);
+    if (visible.length === 0) continue;
+    const latestSeason = Math.max(...visible.map((h) => h.lead.season));
+    const shapesBySeason = new Map<number, readonly LeadShape[]>();
+    const shapesFor = (season: number): readonly LeadShape[] => {
+      if (priorShapes) return priorShapes;
+      let shapes = shapesBySeason.get(season);
+      if (!shapes) {
+        shapes = earlierLeadShapes(leads, genus, season, today);
+        shapesBySeason.set(season, shapes);
+      }
+      return shapes;
+    };
+    for (const h of visible) {
+      const lead = h.lead;
+      if (lead.status === 'removed') continue;
+      if (lead.season !== latestSeason && lead.status !== 'growing') continue;
+      const target = { plantId: plant.id, leadId: lead.id };
+      const last = latestMeasurement(h, today);
+
+      if (lead.status === 'growing') {
+        const since = last ? last.date : lead.firstSeen;
+        const days = daysBetween(since, today);
+        if (days >= measureEvery) {
+          items.push({
+            kind: 'measure',
+            target,
+            date: last?.date ?? null,
+            reason: last
+              ? `no measurement in ${days} days (measure every ${measureEvery})`
+              : `first seen ${days} days ago and not measured yet`,
+          });
+        }
+      }
+
+      const shapes = shapesFor(lead.season);
+      for (const flag of leadFlags({ current: h, plantLeads: leads, plant, genusDefaults: genus, priorShapes: shapes, today })) {
+        items.push({ kind: flag.kind, target, date: flag.stalledSince, reason: flag.reason, flag });
+      }
+
+      const budsOrOpen = Boolean(h.bloom?.budsSeen || h.bloom?.firstOpen);
+      if (last && (last.sheath === 'forming' || last.sheath === 'empty') && !budsOrOpen && lead.status !== 'dried_off' && lead.status !== 'rotted') {
+        const days = daysBetween(last.date, today);
+        if (days >= sheathEvery) {
+          items.push({
+            kind: 'sheath',
+            target,
+            date: last.date,
+            reason: `sheath ${last.sheath} at the last look ${days} days ago: check for buds against the light`,
+          });
+        }
+      }
+
+      if (lead.status !== 'dried_off' && lead.status !== 'rotted' && !h.bloom?.firstOpen) {
+        const fit = lead.status === 'growing' ? fitLeadCurve(h.measurements, lead, { genusDefaults: genus, priorShapes: shapes, today }) : null;
+        const history = leads.filter((x) => x.lead.season !== lead.season);
+        const f = forecastBloom({ current: h, history, genusDefaults: genus, fit, today });
+        if (f.firstOpen && f.firstOpen.p10 >= today && f.firstOpen.p10 <= horizon && f.chance >= BLOOM_MIN_CHANCE) {
+          items.push({
+            kind: 'bloom',
+            target,
+            date: f.firstOpen.p10,
+            reason: `bloom window opens ${f.firstOpen.p10} (likely ${f.firstOpen.p50}, chance ${Math.round(f.chance * 100)}%)`,
+          });
+        }
+      }
+    }
+  }
+
+  return items.sort(
+    (a, b) =>
+      ORDER[a.kind] - ORDER[b.kind] ||
+      a.target.plantId.localeCompare(b.target.plantId) ||
+      a.target.leadId.localeCompare(b.target.leadId),
+  );
+}

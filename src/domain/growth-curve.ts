@@ -1,0 +1,434 @@
+/**
+ * Growth curve of one lead: pseudobulb height h (mm) against t = days since the lead was
+ * first seen, as the three-parameter logistic
+ *
+ *     h(t) = A / (1 + exp((m − t) / s))
+ *
+ * with A the mature height (mm), m the midpoint (day of half height) and s the scale (days).
+ * Same curve as R's SSlogis (Asym, xmid, scal).
+ */
+import { median, sampleStandardDeviation } from 'simple-statistics';
+import { addDays, daysBetween, isIsoDate } from './dates';
+import { studentTQuantile } from './distributions';
+import type { GenusDefaults } from './genus-defaults';
+import { levenbergMarquardt, type LeastSquaresModel } from './least-squares';
+import type { IsoDate, Lead, Measurement } from './types';
+
+/** Shape (and size) of an earlier lead's fitted curve. */
+export interface LeadShape {
+  midpointDays: number;
+  scaleDays: number;
+  matureHeightMm?: number;
+}
+
+export type FitMethod = 'free' | 'scale-only-plant-shape' | 'scale-only-genus-shape' | 'insufficient';
+export type FitQuality = 'good' | 'fair' | 'poor' | 'none';
+
+export interface LeadCurveFit {
+  method: FitMethod;
+  /** Predicted mature height A, mm (≥ 0). */
+  matureHeightMm: number;
+  /** 80% interval for A, mm; low ≥ 0 and low ≤ estimate ≤ high. */
+  interval80: { lowMm: number; highMm: number };
+  /** Standard error of A from the fit alone (no shape term), mm; null when not estimable. */
+  standardErrorMm: number | null;
+  midpointDays: number;
+  scaleDays: number;
+  /** Days after first seen when the curve reaches 95% of A: m + s·ln 19. */
+  maturityDays: number;
+  maturityDate: IsoDate;
+  /** Residual standard deviation, mm; null with fewer residual degrees of freedom than one. */
+  residualSdMm: number | null;
+  /** Measurements used. */
+  n: number;
+  /** Degrees of freedom of the t quantile behind the interval (0 when a normal is used). */
+  degreesOfFreedom: number;
+  rSquared: number | null;
+  quality: FitQuality;
+  /** Age of the lead on `today`, days. */
+  ageDaysToday: number;
+  /** Curve height on `today`, mm. */
+  expectedHeightTodayMm: number;
+  /** Plain-language notes on what the fit did. */
+  notes: string[];
+}
+
+export interface FitLeadCurveOptions {
+  /** Fitted shapes of the same plant's earlier leads (any order). */
+  priorShapes?: readonly LeadShape[];
+  genusDefaults: GenusDefaults;
+  /** Measurements after this date are ignored. */
+  today: IsoDate;
+}
+
+/** 95% of mature height is reached ln 19 scales after the midpoint. */
+export const MATURITY_FRACTION = 0.95;
+const LN19 = Math.log(MATURITY_FRACTION / (1 - MATURITY_FRACTION));
+/** Central coverage of the reported interval. */
+export const INTERVAL_COVERAGE = 0.8;
+/** Fewest measurements for a free three-parameter fit (one residual degree of freedom). */
+export const MIN_POINTS_FREE_FIT = 4;
+/** Prior measurement noise for scale-only fits, mm — ruler reading of a bulb, common practice (from memory). */
+export const MEASUREMENT_SD_PRIOR_MM = 3;
+/** Weight of that prior, in pseudo degrees of freedom (chosen, not sourced). */
+export const MEASUREMENT_SD_PRIOR_DF = 2;
+/** A free fit whose mature height exceeds this multiple of the tallest measurement is implausible. */
+export const MAX_FREE_EXTRAPOLATION = 2.5;
+/** A free fit whose correlation-scaled JᵀJ has a larger condition number is ill-conditioned. */
+export const MAX_CONDITION_NUMBER = 1e12;
+/** Earlier-lead shape spread is floored at this share of the genus spread (chosen, not sourced). */
+export const PLANT_SHAPE_SD_FLOOR = 0.25;
+/** With fewer than three earlier leads, their shape spread is this share of the genus spread (chosen: a plant varies less than its genus). */
+export const PLANT_SHAPE_SD_FEW = 0.4;
+
+/** Logistic fraction 1/(1 + exp((m − t)/s)), computed without overflow. */
+export function logisticFraction(t: number, midpointDays: number, scaleDays: number): number {
+  const z = (midpointDays - t) / scaleDays;
+  if (z >= 0) {
+    const e = Math.exp(-z);
+    return e / (1 + e);
+  }
+  return 1 / (1 + Math.exp(z));
+}
+
+/** Curve height in mm at t days after first seen. */
+export function logisticHeight(t: number, matureHeightMm: number, midpointDays: number, scaleDays: number): number {
+  return matureHeightMm * logisticFraction(t, midpointDays, scaleDays);
+}
+
+/**
+ * Day (after first seen) on which the curve reaches `heightMm`; null if it never does
+ * (height ≥ A or ≤ 0).
+ */
+export function dayAtHeight(heightMm: number, matureHeightMm: number, midpointDays: number, scaleDays: number): number | null {
+  if (!(heightMm > 0) || !(heightMm < matureHeightMm)) return null;
+  return midpointDays - scaleDays * Math.log(matureHeightMm / heightMm - 1);
+}
+
+/** The logistic in (A, m, s) as a least-squares model, for `levenbergMarquardt`. */
+export const LOGISTIC_MODEL: LeastSquaresModel = {
+  value: (t, p) => p[0] * logisticFraction(t, p[1], p[2]),
+  evaluate: (t, p, out) => {
+    const g = logisticFraction(t, p[1], p[2]);
+    const gg = g * (1 - g);
+    out[0] = g;
+    out[1] = (-p[0] * gg) / p[2];
+    out[2] = (p[0] * gg * (p[1] - t)) / (p[2] * p[2]);
+    return p[0] * g;
+  },
+  gradient: (t, p, out) => {
+    const g = logisticFraction(t, p[1], p[2]);
+    const gg = g * (1 - g);
+    out[0] = g;
+    out[1] = (-p[0] * gg) / p[2];
+    out[2] = (p[0] * gg * (p[1] - t)) / (p[2] * p[2]);
+  },
+};
+
+function positiveFinite(v: number | undefined): v is number {
+  return typeof v === 'number' && Number.isFinite(v) && v > 0;
+}
+
+interface BorrowedShape {
+  source: 'plant' | 'genus';
+  m: number;
+  s: number;
+  sdM: number;
+  sdS: number;
+  priorHeightMm: number;
+  priorHeightRelSd: number;
+}
+
+function borrowedShape(priorShapes: readonly LeadShape[] | undefined, genus: GenusDefaults): BorrowedShape {
+  const usable = (priorShapes ?? []).filter(
+    (p) => Number.isFinite(p.midpointDays) && positiveFinite(p.scaleDays),
+  );
+  const heights = (priorShapes ?? []).map((p) => p.matureHeightMm).filter(positiveFinite);
+  const priorHeightMm = heights.length > 0 ? median(heights) : genus.matureHeightMm;
+  const priorHeightRelSd =
+    heights.length >= 3
+      ? Math.max(sampleStandardDeviation(heights) / priorHeightMm, PLANT_SHAPE_SD_FEW * genus.matureHeightRelSd)
+      : genus.matureHeightRelSd;
+  if (usable.length === 0) {
+    return {
+      source: 'genus',
+      m: genus.midpointDays,
+      s: genus.scaleDays,
+      sdM: genus.midpointSdDays,
+      sdS: genus.scaleSdDays,
+      priorHeightMm,
+      priorHeightRelSd,
+    };
+  }
+  const ms = usable.map((p) => p.midpointDays);
+  const ss = usable.map((p) => p.scaleDays);
+  const few = usable.length < 3;
+  const sdM = few
+    ? PLANT_SHAPE_SD_FEW * genus.midpointSdDays
+    : Math.max(sampleStandardDeviation(ms), PLANT_SHAPE_SD_FLOOR * genus.midpointSdDays);
+  const sdS = few
+    ? PLANT_SHAPE_SD_FEW * genus.scaleSdDays
+    : Math.max(sampleStandardDeviation(ss), PLANT_SHAPE_SD_FLOOR * genus.scaleSdDays);
+  return {
+    source: 'plant',
+    m: median(ms),
+    s: median(ss),
+    sdM,
+    sdS,
+    priorHeightMm,
+    priorHeightRelSd,
+  };
+}
+
+/*
+ * Sensitivity of ln Â to the borrowed scale, |u|/(1 + e^u) with u = (t − m)/s, replaced by its
+ * running maximum over later ages so that a later measurement never increases it.
+ */
+const SCALE_SENSITIVITY_PEAK = (() => {
+  // Root of 1 + e^u = u·e^u (maximum of u/(1 + e^u) for u > 0), by Newton.
+  let u = 1.3;
+  for (let i = 0; i < 50; i++) {
+    const f = 1 + Math.exp(u) - u * Math.exp(u);
+    const df = -u * Math.exp(u);
+    u -= f / df;
+  }
+  return { u, value: u / (1 + Math.exp(u)) };
+})();
+
+function scaleSensitivity(u: number): number {
+  const f = Math.abs(u) / (1 + Math.exp(u));
+  return u < SCALE_SENSITIVITY_PEAK.u ? Math.max(f, SCALE_SENSITIVITY_PEAK.value) : f;
+}
+
+interface Candidate {
+  method: FitMethod;
+  a: number;
+  m: number;
+  s: number;
+  halfWidth: number;
+  se: number | null;
+  residualSd: number | null;
+  df: number;
+  sse: number;
+  notes: string[];
+}
+
+function clampedWidth(c: Candidate): number {
+  return c.a + c.halfWidth - Math.max(0, c.a - c.halfWidth);
+}
+
+function scaleOnly(t: number[], h: number[], shape: BorrowedShape): Candidate | null {
+  const g = t.map((ti) => logisticFraction(ti, shape.m, shape.s));
+  let sgg = 0;
+  let sgy = 0;
+  for (let i = 0; i < t.length; i++) {
+    sgg += g[i] * g[i];
+    sgy += g[i] * h[i];
+  }
+  if (!(sgg > 1e-12)) return null;
+  const a = Math.max(0, sgy / sgg);
+  let sse = 0;
+  for (let i = 0; i < t.length; i++) sse += (h[i] - a * g[i]) ** 2;
+  const df = MEASUREMENT_SD_PRIOR_DF + t.length - 1;
+  const s2 = (MEASUREMENT_SD_PRIOR_DF * MEASUREMENT_SD_PRIOR_MM ** 2 + sse) / df;
+  const se = Math.sqrt(s2 / sgg);
+  const q = studentTQuantile(0.5 + INTERVAL_COVERAGE / 2, df);
+  const tLast = Math.max(...t);
+  const gLast = logisticFraction(tLast, shape.m, shape.s);
+  const u = (tLast - shape.m) / shape.s;
+  const relShapeSd = Math.hypot(((1 - gLast) * shape.sdM) / shape.s, (scaleSensitivity(u) * shape.sdS) / shape.s);
+  const z = studentTQuantile(0.5 + INTERVAL_COVERAGE / 2, Infinity);
+  const halfWidth = Math.hypot(q * se, z * relShapeSd * a);
+  const source = shape.source === 'plant' ? "this plant's earlier leads" : 'genus defaults';
+  return {
+    method: shape.source === 'plant' ? 'scale-only-plant-shape' : 'scale-only-genus-shape',
+    a,
+    m: shape.m,
+    s: shape.s,
+    halfWidth,
+    se,
+    residualSd: t.length > 1 ? Math.sqrt(sse / (t.length - 1)) : null,
+    df,
+    sse,
+    notes: [`shape borrowed from ${source} (midpoint ${shape.m.toFixed(0)} d, scale ${shape.s.toFixed(1)} d)`],
+  };
+}
+
+function implausibility(r: ReturnType<typeof levenbergMarquardt>, maxH: number, tMax: number): string | null {
+  const [a, m, s] = r.params;
+  if (!(r.conditionNumber < MAX_CONDITION_NUMBER)) return 'free fit ill-conditioned';
+  if (!(a > 0) || !(s > 0.5) || !(s < 365)) return 'free fit implausible (height or scale)';
+  if (a > MAX_FREE_EXTRAPOLATION * maxH) return 'free fit extrapolates too far beyond the tallest measurement';
+  if (!(m > -180 && m < tMax + 365)) return 'free fit implausible (midpoint)';
+  return null;
+}
+
+function freeFit(t: number[], h: number[], shape: BorrowedShape, scaleOnlyA: number | null): Candidate | { rejected: string } {
+  const maxH = Math.max(...h);
+  const tMin = Math.min(...t);
+  const tMax = Math.max(...t);
+  const starts: number[][] = [
+    [Math.max(maxH * 1.05, scaleOnlyA ?? 0, 1), shape.m, shape.s],
+    [Math.max(maxH * 1.2, 1), (tMin + tMax) / 2, Math.max((tMax - tMin) / 6, 1)],
+  ];
+  if (scaleOnlyA !== null && scaleOnlyA > 0) starts.push([scaleOnlyA, shape.m, shape.s]);
+  // Starts in order of how often they succeed; the first converged, plausible fit is kept.
+  let best: ReturnType<typeof levenbergMarquardt> | null = null;
+  let rejected = 'free fit did not converge';
+  for (const p0 of starts) {
+    const r = levenbergMarquardt(LOGISTIC_MODEL, t, h, p0, { maxIterations: 300, stepTolerance: 1e-9 });
+    if (!r.converged || !r.standardErrors) continue;
+    const problem = implausibility(r, maxH, tMax);
+    if (problem) {
+      rejected = problem;
+      continue;
+    }
+    best = r;
+    break;
+  }
+  if (!best || !best.standardErrors) return { rejected };
+  const [a, m, s] = best.params;
+  const se = best.standardErrors[0];
+  const q = studentTQuantile(0.5 + INTERVAL_COVERAGE / 2, best.degreesOfFreedom);
+  const halfWidth = q * se;
+  if (!Number.isFinite(halfWidth)) return { rejected: 'free fit has no finite interval' };
+  return {
+    method: 'free',
+    a,
+    m,
+    s,
+    halfWidth,
+    se,
+    residualSd: best.residualSd,
+    df: best.degreesOfFreedom,
+    sse: best.sse,
+    notes: [],
+  };
+}
+
+function priorOnly(shape: BorrowedShape, noMeasurements: boolean): Candidate {
+  const z = studentTQuantile(0.5 + INTERVAL_COVERAGE / 2, Infinity);
+  const a = shape.priorHeightMm;
+  return {
+    method: 'insufficient',
+    a,
+    m: shape.m,
+    s: shape.s,
+    halfWidth: z * shape.priorHeightRelSd * a,
+    se: null,
+    residualSd: null,
+    df: 0,
+    sse: 0,
+    notes: noMeasurements
+      ? [`no measurements yet: typical mature size of ${shape.source === 'plant' ? "this plant's leads" : 'the genus'} shown`]
+      : [],
+  };
+}
+
+function qualityOf(method: FitMethod, a: number, halfWidth: number): FitQuality {
+  if (method === 'insufficient') return 'none';
+  const rel = a > 0 ? halfWidth / a : Infinity;
+  if (rel <= 0.1) return 'good';
+  if (rel <= 0.25) return 'fair';
+  return 'poor';
+}
+
+/**
+ * Fits the lead's growth curve and predicts its mature height.
+ *
+ * Inputs: the lead's measurements (heights in mm; others, measurements of other leads, those
+ * dated after `today`, with invalid dates, or with negative / non-finite heights are ignored),
+ * the lead (for `firstSeen`), and options. Age t is whole days since `firstSeen`.
+ *
+ * Method:
+ * - With ≥ 4 measurements (at ≥ 4 different ages), a free Levenberg–Marquardt fit of (A, m, s);
+ *   80% interval A ± t(0.9, n − 3)·se(A), se from s²(JᵀJ)⁻¹.
+ * - Always (with ≥ 1 measurement), a scale-only fit of A by linear least squares with the shape
+ *   (m, s) borrowed from the median of `priorShapes`, else genus defaults. Its interval pools the
+ *   residual variance with a prior measurement noise (`MEASUREMENT_SD_PRIOR_MM`) and adds the
+ *   first-order effect of the shape's spread on A (large while the lead is young, vanishing as it
+ *   nears maturity), so it is wider than a free fit of the same precision.
+ * - The free fit is used when it converged, is well-conditioned and plausible, and its interval
+ *   is no wider than the scale-only one (otherwise the data do not yet pin down the shape).
+ * - The prior alone — A = the median mature height of earlier leads, else the genus typical
+ *   height, with their spread — is method 'insufficient'. It is used with no usable measurement,
+ *   and also whenever its interval is narrower than the fitted ones while still reaching the
+ *   tallest measurement (early in the season one or two heights say less than the record).
+ *
+ * Guarantees: no NaN, A ≥ 0, 0 ≤ low ≤ A ≤ high. Adding a measurement that lies on the returned
+ * curve never widens the interval (for a lead that already has a measurement).
+ */
+export function fitLeadCurve(
+  measurements: readonly Measurement[],
+  lead: Pick<Lead, 'id' | 'firstSeen'>,
+  options: FitLeadCurveOptions,
+): LeadCurveFit {
+  const { today, genusDefaults } = options;
+  const usable = measurements
+    .filter(
+      (x) =>
+        x.leadId === lead.id &&
+        isIsoDate(x.date) &&
+        x.date <= today &&
+        Number.isFinite(x.heightMm) &&
+        x.heightMm >= 0,
+    )
+    .slice()
+    .sort((a, b) => (a.date < b.date ? -1 : a.date > b.date ? 1 : 0));
+  const t = usable.map((x) => daysBetween(lead.firstSeen, x.date));
+  const h = usable.map((x) => x.heightMm);
+  const shape = borrowedShape(options.priorShapes, genusDefaults);
+  const ageDaysToday = daysBetween(lead.firstSeen, today);
+  const notes: string[] = [];
+
+  let chosen: Candidate | null = null;
+  const scaled = usable.length > 0 ? scaleOnly(t, h, shape) : null;
+  if (scaled) chosen = scaled;
+  const distinctAges = new Set(t).size;
+  if (usable.length >= MIN_POINTS_FREE_FIT && distinctAges >= MIN_POINTS_FREE_FIT) {
+    const free = freeFit(t, h, shape, scaled ? scaled.a : null);
+    if ('rejected' in free) notes.push(free.rejected);
+    else if (!chosen || clampedWidth(free) <= clampedWidth(chosen)) chosen = free;
+    else notes.push('free fit less certain than the borrowed shape');
+  } else if (usable.length > 0) {
+    notes.push(`only ${usable.length} measurement${usable.length === 1 ? '' : 's'} at ${distinctAges} age${distinctAges === 1 ? '' : 's'}: shape not fitted`);
+  }
+
+  // The prior alone (typical mature size of earlier leads or the genus) competes too: early in
+  // the season one measurement says less about the mature size than the plant's record does.
+  // It is admissible only while its interval still reaches the tallest measurement.
+  const prior = priorOnly(shape, usable.length === 0);
+  const maxH = h.length > 0 ? Math.max(...h) : 0;
+  if (!chosen || (prior.a + prior.halfWidth >= maxH && clampedWidth(prior) < clampedWidth(chosen))) {
+    if (chosen) notes.push('measurements still too early to scale the curve: typical mature size shown');
+    chosen = prior;
+  }
+
+  const a = Number.isFinite(chosen.a) && chosen.a > 0 ? chosen.a : 0;
+  const halfWidth = Number.isFinite(chosen.halfWidth) && chosen.halfWidth >= 0 ? chosen.halfWidth : a;
+  const maturityDays = chosen.m + chosen.s * LN19;
+  let rSquared: number | null = null;
+  if (chosen.method !== 'insufficient' && h.length >= 2) {
+    const meanH = h.reduce((x, y) => x + y, 0) / h.length;
+    const sst = h.reduce((x, y) => x + (y - meanH) ** 2, 0);
+    if (sst > 0) rSquared = 1 - chosen.sse / sst;
+  }
+  return {
+    method: chosen.method,
+    matureHeightMm: a,
+    interval80: { lowMm: Math.max(0, a - halfWidth), highMm: a + halfWidth },
+    standardErrorMm: chosen.se !== null && Number.isFinite(chosen.se) ? chosen.se : null,
+    midpointDays: chosen.m,
+    scaleDays: chosen.s,
+    maturityDays,
+    maturityDate: addDays(lead.firstSeen, Math.round(maturityDays)),
+    residualSdMm: chosen.residualSd !== null && Number.isFinite(chosen.residualSd) ? chosen.residualSd : null,
+    n: usable.length,
+    degreesOfFreedom: chosen.df,
+    rSquared,
+    quality: qualityOf(chosen.method, a, halfWidth),
+    ageDaysToday,
+    expectedHeightTodayMm: logisticHeight(ageDaysToday, a, chosen.m, chosen.s),
+    notes: [...chosen.notes, ...notes],
+  };
+}

@@ -1,0 +1,202 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import {
+  BLOOM_SHRINKAGE_K,
+  CHANCE_FACTORS,
+  forecastBloom,
+  maturedOn,
+  shrinkLogInterval,
+  type BloomHistory,
+} from '@/domain/bloom-window';
+import { addDays, daysBetween } from '@/domain/dates';
+import { BRASSAVOLA_DEFAULTS, CATTLEYA_DEFAULTS, DENDROBIUM_DEFAULTS } from '@/domain/genus-defaults';
+import type { BloomRecord, Lead, SheathState, TemperatureReading } from '@/domain/types';
+import { buildLead, buildMeasurement } from './builders';
+
+// Generated scenarios: a Cattleya whose leads mature (sheath forming) on 1 August, show buds on
+// 10 September, open on 1 October (61 days after maturity) and fade on 5 November.
+function pastSeason(season: number, opts: { open?: boolean; sheath?: SheathState; height?: number; flowers?: number; spikes?: number } = {}): BloomHistory {
+  const lead = buildLead({ season, status: 'mature' });
+  const height = opts.height ?? 160;
+  const measurements = [
+    buildMeasurement(lead, 60, height * 0.5),
+    buildMeasurement(lead, 120, height * 0.9),
+    buildMeasurement(lead, daysBetween(lead.firstSeen, `${season}-08-01`), height, { sheath: opts.sheath ?? 'forming' }),
+  ];
+  const bloom: BloomRecord | null =
+    opts.open === false
+      ? null
+      : {
+          leadId: lead.id,
+          budsSeen: `${season}-09-10`,
+          firstOpen: `${season}-10-01`,
+          lastFaded: `${season}-11-05`,
+          flowerCount: opts.flowers ?? 4,
+          spikeCount: opts.spikes ?? 1,
+        };
+  return { lead, measurements, bloom };
+}
+
+function currentLead(sheath: SheathState | null, overrides: Partial<Lead> = {}, height = 160): BloomHistory {
+  const lead = buildLead({ season: 2026, ...overrides });
+  const measurements = [buildMeasurement(lead, 60, height * 0.5), buildMeasurement(lead, 120, height * 0.9)];
+  if (sheath) measurements.push(buildMeasurement(lead, daysBetween(lead.firstSeen, '2026-08-03'), height, { sheath }));
+  return { lead, measurements, bloom: null };
+}
+
+const fourSeasons = [2022, 2023, 2024, 2025].map((s) => pastSeason(s));
+
+describe('shrinkLogInterval (weight n/(n + k))', () => {
+  it.each([
+    [[], 0],
+    [[60], 1 / (1 + BLOOM_SHRINKAGE_K)],
+    [[60, 60, 60], 3 / (3 + BLOOM_SHRINKAGE_K)],
+  ])('with plant intervals %j gives weight %d and the weighted log-mean', (days, w) => {
+    const genus = { mu: Math.log(30), sigma: 0.5 };
+    const r = shrinkLogInterval(days, genus);
+    expect(r.weight).toBeCloseTo(w, 12);
+    const expectedMu = days.length ? w * Math.log(60) + (1 - w) * Math.log(30) : Math.log(30);
+    expect(r.mu).toBeCloseTo(expectedMu, 12);
+    expect(r.sigma).toBeGreaterThan(0);
+  });
+
+  it('drops non-positive and non-finite intervals', () => {
+    expect(shrinkLogInterval([0, -3, Number.NaN], { mu: 1, sigma: 0.2 }).n).toBe(0);
+  });
+});
+
+describe('maturedOn', () => {
+  it('is the first sheath for a sheathed genus and full height for Dendrobium', () => {
+    const h = pastSeason(2025);
+    expect(maturedOn(h, CATTLEYA_DEFAULTS)).toBe('2025-08-01');
+    const lead = buildLead({ season: 2025, status: 'mature' });
+    const den = { lead, measurements: [buildMeasurement(lead, 50, 100), buildMeasurement(lead, 100, 290), buildMeasurement(lead, 130, 300)] };
+    expect(maturedOn(den, DENDROBIUM_DEFAULTS)).toBe(addDays(lead.firstSeen, 100));
+    expect(maturedOn({ ...den, lead: { ...lead, status: 'growing' } }, DENDROBIUM_DEFAULTS)).toBeNull();
+  });
+});
+
+describe('forecastBloom', () => {
+  it('forecasts from maturity with the plant history shrunk toward the genus', () => {
+    const f = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    expect(f.stage).toBe('mature');
+    expect(f.stageDate).toBe('2026-08-03');
+    expect(f.history.seasons).toBe(4);
+    expect(f.history.weight).toBeCloseTo(4 / 7, 12);
+    // Plant 61 days, genus 45 + 21 = 66 days: the likely date lies between.
+    const likely = daysBetween('2026-08-03', f.firstOpen!.p50);
+    expect(likely).toBeGreaterThanOrEqual(61);
+    expect(likely).toBeLessThanOrEqual(66);
+    expect(f.firstOpen!.p10 < f.firstOpen!.p50 && f.firstOpen!.p50 < f.firstOpen!.p90).toBe(true);
+    expect(f.mode).toBe('days');
+    expect(f.chance).toBeGreaterThan(0.85);
+  });
+
+  it('a short history gives a wider window than a long one', () => {
+    const short = forecastBloom({ current: currentLead('forming'), history: fourSeasons.slice(3), genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    const long = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    const span = (f: typeof short) => daysBetween(f.firstOpen!.p10, f.firstOpen!.p90);
+    expect(span(short)).toBeGreaterThan(span(long));
+  });
+
+  it('switches to buds → open once buds are seen, and to the actual date once open', () => {
+    const c = currentLead('budded');
+    const buds = forecastBloom({ current: { ...c, bloom: { leadId: c.lead.id, budsSeen: '2026-09-12', firstOpen: null, lastFaded: null, flowerCount: null, spikeCount: null } }, history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-09-15' });
+    expect(buds.stage).toBe('buds');
+    expect(buds.chance).toBe(1);
+    const d = daysBetween('2026-09-12', buds.firstOpen!.p50);
+    expect(d).toBeGreaterThanOrEqual(21);
+    expect(d).toBeLessThanOrEqual(22);
+    const open = forecastBloom({ current: { ...c, bloom: { leadId: c.lead.id, budsSeen: '2026-09-12', firstOpen: '2026-10-02', lastFaded: null, flowerCount: 5, spikeCount: 1 } }, history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-10-05' });
+    expect(open.stage).toBe('in_flower');
+    expect(open.firstOpen).toEqual({ p10: '2026-10-02', p50: '2026-10-02', p90: '2026-10-02' });
+    expect(open.expectedFlowers.count).toBe(5);
+  });
+
+  it('uses the predicted maturity date of the growth fit while the lead grows', () => {
+    const f = forecastBloom({
+      current: currentLead(null),
+      history: fourSeasons,
+      genusDefaults: CATTLEYA_DEFAULTS,
+      today: '2026-07-01',
+      fit: { maturityDate: '2026-08-05', method: 'free', matureHeightMm: 165 } as never,
+    });
+    expect(f.stage).toBe('growing');
+    expect(f.firstOpen).not.toBeNull();
+    expect(f.notes.join(' ')).toMatch(/predicted maturity date 2026-08-05/);
+  });
+
+  it('gives no window for a growing lead with no fit, and none for a lost lead', () => {
+    expect(forecastBloom({ current: currentLead(null), history: [], genusDefaults: CATTLEYA_DEFAULTS, today: '2026-07-01' }).firstOpen).toBeNull();
+    const lost = forecastBloom({ current: currentLead('forming', { status: 'rotted' }), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    expect(lost.stage).toBe('lost');
+    expect(lost.chance).toBe(0);
+    expect(lost.firstOpen).toBeNull();
+  });
+
+  it.each([
+    ['B. (green-sheath bloomer), dry sheath', BRASSAVOLA_DEFAULTS, 'dry', false, CHANCE_FACTORS.drySheathGreenBloomer],
+    ['C. with unknown habit, dry sheath', CATTLEYA_DEFAULTS, 'dry', false, CHANCE_FACTORS.drySheathUnknownHabit],
+    ['C. that bloomed from dry sheaths before', CATTLEYA_DEFAULTS, 'dry', true, 1],
+    ['C. with an empty sheath', CATTLEYA_DEFAULTS, 'empty', false, CHANCE_FACTORS.emptySheath],
+  ] as const)('chance for %s', (_n, genus, sheath, dryHistory, factor) => {
+    const history = [2022, 2023, 2024, 2025].map((s) => pastSeason(s, { sheath: dryHistory ? 'dry' : 'forming' }));
+    const base = forecastBloom({ current: currentLead('forming'), history, genusDefaults: genus, today: '2026-08-10' });
+    const f = forecastBloom({ current: currentLead(sheath), history, genusDefaults: genus, today: '2026-08-10' });
+    expect(f.chance).toBeCloseTo(Math.min(0.98, base.chance * factor), 10);
+  });
+
+  it('a lead much smaller than last season is less likely to bloom', () => {
+    const small = forecastBloom({ current: currentLead('forming', {}, 90), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    const full = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    expect(small.chance).toBeCloseTo(full.chance * CHANCE_FACTORS.muchSmallerLead, 10);
+    expect(small.chanceReasons.join(' ')).toMatch(/56% of last season's size/);
+  });
+
+  it('a plant that rarely blooms gets a lower chance than the genus rate', () => {
+    const history = [2022, 2023, 2024, 2025].map((s) => pastSeason(s, { open: s === 2024 }));
+    const f = forecastBloom({ current: currentLead('forming'), history, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    // (1 + 3·0.8)/(4 + 3)
+    expect(f.chance).toBeCloseTo((1 + BLOOM_SHRINKAGE_K * 0.8) / (4 + BLOOM_SHRINKAGE_K), 10);
+  });
+
+  it('expects flowers per spike from bulb size across the plant history', () => {
+    const history = [
+      pastSeason(2022, { height: 100, flowers: 2 }),
+      pastSeason(2023, { height: 150, flowers: 3 }),
+      pastSeason(2024, { height: 200, flowers: 8, spikes: 2 }),
+    ];
+    const f = forecastBloom({ current: currentLead('forming', {}, 175), history, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    // Flowers per spike 2, 3, 4 at 100, 150, 200 mm: a line of 0.02 per mm, 3.5 at 175 mm.
+    expect(f.expectedFlowers.basis).toBe('plant-by-size');
+    expect(f.expectedFlowers.perSpike).toBeCloseTo(3.5, 10);
+    const none = forecastBloom({ current: currentLead('forming'), history: [], genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    expect(none.expectedFlowers).toMatchObject({ basis: 'genus', perSpike: CATTLEYA_DEFAULTS.flowersPerSpike });
+  });
+
+  it('runs in degree-days when temperature readings cover the history', () => {
+    const readings: TemperatureReading[] = [];
+    for (let d = '2022-01-01'; d <= '2026-08-10'; d = addDays(d, 1)) readings.push({ areaId: 'a', date: d, minC: 13.5, maxC: 23.5 });
+    const f = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10', readings });
+    expect(f.mode).toBe('degree-days');
+    // Constant 15 degree-days a day: the same answer as counting days.
+    const days = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    expect(Math.abs(daysBetween(days.firstOpen!.p50, f.firstOpen!.p50))).toBeLessThanOrEqual(1);
+  });
+
+  it('percentiles are always ordered (fast-check)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 5, max: 200 }), { maxLength: 6 }), fc.constantFrom<SheathState>('none', 'forming', 'empty', 'dry'), (gaps, sheath) => {
+        const history = gaps.map((g, i) => {
+          const h = pastSeason(2015 + i);
+          return { ...h, bloom: { ...h.bloom!, firstOpen: addDays(`${2015 + i}-08-01`, g), budsSeen: null } };
+        });
+        const f = forecastBloom({ current: currentLead(sheath === 'none' ? 'forming' : sheath), history, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+        expect(f.firstOpen!.p10 <= f.firstOpen!.p50 && f.firstOpen!.p50 <= f.firstOpen!.p90).toBe(true);
+        expect(f.chance).toBeGreaterThanOrEqual(0);
+        expect(f.chance).toBeLessThanOrEqual(1);
+      }),
+      { numRuns: 200 },
+    );
+  });
+});
