@@ -1,0 +1,1 @@
+export { NewPlantScreen as default } from '@/features/plants/new-plant-screen';

@@ -1,0 +1,33 @@
+import { Pressable, StyleSheet } from 'react-native';
+import { colors, radius, spacing } from '@/theme';
+import { Text } from './text';
+
+/** A toggle for filters and quick choices; read as a pressed/unpressed button. */
+export function Chip({ label, selected, onPress, testID }: { label: string; selected: boolean; onPress: () => void; testID?: string }) {
+  return (
+    <Pressable
+      role="button"
+      aria-pressed={selected}
+      onPress={onPress}
+      testID={testID}
+      style={StyleSheet.flatten([styles.chip, selected && styles.selected])}
+    >
+      <Text variant="label" color={selected ? 'onAccent' : 'text'}>
+        {label}
+      </Text>
+    </Pressable>
+  );
+}
+
+const styles = StyleSheet.create({
+  chip: {
+    minHeight: 40,
+    paddingHorizontal: spacing.md,
+    justifyContent: 'center',
+    borderRadius: radius.pill,
+    borderWidth: 1.5,
+    borderColor: colors.border,
+    backgroundColor: colors.surface,
+  },
+  selected: { backgroundColor: colors.accent, borderColor: colors.accent },
+});

@@ -1,0 +1,25 @@
+import { Controller, type Control, type FieldValues, type Path } from 'react-hook-form';
+import { TextField, type TextFieldProps } from './text-field';
+
+/** A TextField bound to a react-hook-form field; null values show as empty text. */
+export function FormTextField<T extends FieldValues>({
+  control,
+  name,
+  ...props
+}: { control: Control<T>; name: Path<T> } & Omit<TextFieldProps, 'value' | 'onChangeText' | 'error'>) {
+  return (
+    <Controller
+      control={control}
+      name={name}
+      render={({ field, fieldState }) => (
+        <TextField
+          {...props}
+          value={field.value ?? ''}
+          onChangeText={(text) => field.onChange(text === '' ? null : text)}
+          onBlur={field.onBlur}
+          error={fieldState.error?.message}
+        />
+      )}
+    />
+  );
+}

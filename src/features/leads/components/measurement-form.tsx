@@ -1,0 +1,164 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { z } from 'zod';
+import { ApiError } from '@/api/client';
+import { Button } from '@/components/button';
+import { Chip } from '@/components/chip';
+import { NumberField, parseNumber } from '@/components/number-field';
+import { Text } from '@/components/text';
+import { TextField } from '@/components/text-field';
+import { localToday } from '@/lib/dates';
+import { fromMm, STEP, toMm, type LengthUnit } from '@/lib/units';
+import { measurementInputSchema, sheathStates, type Measurement, type MeasurementInput, type SheathState } from '@/shared/schemas/records';
+import { spacing } from '@/theme';
+import { SHEATH_LABELS } from '../../plants/components/lead-chip';
+
+/** What the grower types: sizes in the collection's unit, as text until saved. */
+const formSchema = z.object({
+  date: z.string(),
+  height: z.string().min(1, 'Enter the pseudobulb height'),
+  leafCount: z.string(),
+  rootTips: z.string(),
+  bulbWidth: z.string(),
+  sheath: z.enum(sheathStates),
+  note: z.string(),
+});
+type FormValues = z.infer<typeof formSchema>;
+
+const FIELD_OF: Record<string, keyof FormValues> = { heightMm: 'height', bulbWidthMm: 'bulbWidth', leafCount: 'leafCount', rootTips: 'rootTips', date: 'date', sheath: 'sheath', note: 'note' };
+
+function initialValues(last: Measurement | null, units: LengthUnit): FormValues {
+  const text = (v: number | null | undefined) => (v === null || v === undefined ? '' : String(v));
+  return {
+    date: localToday(),
+    height: last ? String(fromMm(last.heightMm, units)) : '',
+    leafCount: text(last?.leafCount),
+    rootTips: text(last?.rootTips),
+    bulbWidth: last?.bulbWidthMm ? String(fromMm(last.bulbWidthMm, units)) : '',
+    sheath: last?.sheath ?? 'none',
+    note: '',
+  };
+}
+
+export interface MeasurementFormProps {
+  last: Measurement | null;
+  units: LengthUnit;
+  /** Saves the entry; it must throw ApiError for a refusal so the fields can show it. */
+  onSave: (input: MeasurementInput) => Promise<unknown>;
+  saveLabel?: string;
+  testIDPrefix?: string;
+}
+
+/**
+ * The fast add-measurement form: last values pre-filled, steppers, today's date. The
+ * typed values are converted to millimetres and checked with the shared schema before
+ * anything is sent.
+ */
+export function MeasurementForm({ last, units, onSave, saveLabel = 'Save measurement', testIDPrefix = 'measure' }: MeasurementFormProps) {
+  const [formError, setFormError] = useState<string>();
+  const [saved, setSaved] = useState(false);
+  const { control, handleSubmit, setError, reset, formState } = useForm<FormValues>({
+    resolver: zodResolver(formSchema),
+    defaultValues: initialValues(last, units),
+  });
+
+  const submit = handleSubmit(async (values) => {
+    setFormError(undefined);
+    setSaved(false);
+    const height = parseNumber(values.height);
+    const width = parseNumber(values.bulbWidth);
+    const candidate = {
+      date: values.date,
+      heightMm: height === null ? undefined : toMm(height, units),
+      leafCount: parseNumber(values.leafCount),
+      rootTips: parseNumber(values.rootTips),
+      bulbWidthMm: width === null ? null : toMm(width, units),
+      sheath: values.sheath,
+      note: values.note || null,
+    };
+    const checked = measurementInputSchema.safeParse(candidate);
+    if (!checked.success) {
+      for (const issue of checked.error.issues) {
+        const field = FIELD_OF[String(issue.path[0])];
+        if (field) setError(field, { type: 'schema', message: issue.message });
+      }
+      return;
+    }
+    try {
+      await onSave(checked.data);
+      setSaved(true);
+      reset({ ...values, note: '' });
+    } catch (error) {
+      if (error instanceof ApiError) {
+        let placed = false;
+        for (const detail of error.details) {
+          const field = FIELD_OF[detail.field];
+          if (field) {
+            setError(field, { type: 'server', message: detail.reason });
+            placed = true;
+          }
+        }
+        if (!placed) setFormError(error.message);
+      } else setFormError('Something went wrong; try again.');
+    }
+  });
+
+  const unitLabel = units === 'mm' ? 'mm' : 'inches';
+  return (
+    <View style={styles.form}>
+      <Controller control={control} name="date" render={({ field, fieldState }) => <TextField label="Date" value={field.value} onChangeText={field.onChange} hint="YYYY-MM-DD" error={fieldState.error?.message} testID={`${testIDPrefix}-date`} />} />
+      <Controller
+        control={control}
+        name="height"
+        render={({ field, fieldState }) => (
+          <NumberField label={`Pseudobulb height (${unitLabel})`} value={field.value} onChange={field.onChange} step={STEP[units]} decimals={units === 'in' ? 1 : 0} error={fieldState.error?.message} testID={`${testIDPrefix}-height`} />
+        )}
+      />
+      <View style={styles.pair}>
+        <View style={styles.half}>
+          <Controller control={control} name="leafCount" render={({ field, fieldState }) => <NumberField label="Leaves" value={field.value} onChange={field.onChange} error={fieldState.error?.message} testID={`${testIDPrefix}-leaves`} />} />
+        </View>
+        <View style={styles.half}>
+          <Controller control={control} name="rootTips" render={({ field, fieldState }) => <NumberField label="New root tips" value={field.value} onChange={field.onChange} error={fieldState.error?.message} testID={`${testIDPrefix}-roots`} />} />
+        </View>
+      </View>
+      <Controller
+        control={control}
+        name="sheath"
+        render={({ field }) => (
+          <View style={styles.group}>
+            <Text variant="label">Sheath</Text>
+            <View style={styles.chips} role="radiogroup" aria-label="Sheath">
+              {sheathStates.map((s: SheathState) => (
+                <Chip key={s} label={SHEATH_LABELS[s]} selected={field.value === s} onPress={() => field.onChange(s)} testID={`${testIDPrefix}-sheath-${s}`} />
+              ))}
+            </View>
+          </View>
+        )}
+      />
+      <Controller control={control} name="bulbWidth" render={({ field, fieldState }) => <TextField label={`Bulb width (${unitLabel}, optional)`} value={field.value} onChangeText={field.onChange} inputMode="decimal" error={fieldState.error?.message} />} />
+      <Controller control={control} name="note" render={({ field, fieldState }) => <TextField label="Note (optional)" value={field.value} onChangeText={field.onChange} error={fieldState.error?.message} testID={`${testIDPrefix}-note`} />} />
+      {formError ? (
+        <Text color="danger" role="alert">
+          {formError}
+        </Text>
+      ) : null}
+      {saved && !formState.isDirty ? (
+        <Text color="success" accessibilityLiveRegion="polite">
+          Saved
+        </Text>
+      ) : null}
+      <Button label={saveLabel} onPress={submit} loading={formState.isSubmitting} testID={`${testIDPrefix}-save`} />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  form: { gap: spacing.md },
+  pair: { flexDirection: 'row', gap: spacing.md, flexWrap: 'wrap' },
+  half: { flex: 1, minWidth: 150 },
+  group: { gap: spacing.xs },
+  chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
+});

@@ -1,0 +1,132 @@
+import { Link, useLocalSearchParams } from 'expo-router';
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { ApiError } from '@/api/client';
+import { useAddMeasurementMutation, useLeadQuery, useMarkSheathMutation, useUpdateLeadMutation } from '@/api/queries/records';
+import { useMeQuery } from '@/api/queries/session';
+import { Button } from '@/components/button';
+import { Card } from '@/components/card';
+import { Confirm } from '@/components/confirm';
+import { QueryState } from '@/components/query-state';
+import { Screen } from '@/components/screen';
+import { Text } from '@/components/text';
+import { formatDate, localToday } from '@/lib/dates';
+import { useIsWide } from '@/lib/use-is-wide';
+import { formatLength } from '@/lib/units';
+import { newClientKey } from '@/lib/uuid';
+import { plantDisplayName } from '@/shared/plant-name';
+import type { LeadDetail, SheathState } from '@/shared/schemas/records';
+import { spacing } from '@/theme';
+import { useCollectionSettings } from '../collections/use-collection-settings';
+import { SHEATH_LABELS, STATUS_LABELS } from '../plants/components/lead-chip';
+import { BloomForm } from './components/bloom-form';
+import { MeasurementForm } from './components/measurement-form';
+import { MeasurementTable } from './components/measurement-table';
+
+const QUICK_SHEATH: SheathState[] = ['empty', 'budded', 'dry'];
+
+export function LeadScreen() {
+  const { leadId } = useLocalSearchParams<{ leadId: string }>();
+  const { collectionId } = useCollectionSettings();
+  const lead = useLeadQuery(collectionId, leadId);
+  return (
+    <QueryState query={lead} loadingLabel="Loading the lead…">
+      {(data) => <LeadBody lead={data} />}
+    </QueryState>
+  );
+}
+
+function LeadBody({ lead }: { lead: LeadDetail }) {
+  const wide = useIsWide();
+  const me = useMeQuery();
+  const { collectionId, canWrite, isOwner, units } = useCollectionSettings();
+  const add = useAddMeasurementMutation(collectionId, lead.id);
+  const mark = useMarkSheathMutation(collectionId, lead.id);
+  const updateLead = useUpdateLeadMutation(collectionId, lead.id);
+  const [ending, setEnding] = useState<'dried_off' | 'rotted' | null>(null);
+  const last = lead.measurements.at(-1) ?? null;
+  const markError = mark.error instanceof ApiError ? mark.error.message : undefined;
+
+  const summary = last
+    ? `Last measured ${formatDate(last.date)}: ${formatLength(last.heightMm, units)}, ${SHEATH_LABELS[last.sheath].toLowerCase()}.`
+    : 'Not measured yet.';
+
+  return (
+    <Screen title={`Lead ${lead.label}`} subtitle={`${plantDisplayName(lead.plant)} · ${lead.plant.tag}`} testID="lead-screen">
+      <Link href={`/plants/${lead.plant.id}`}>
+        <Text color="accent">‹ {lead.plant.tag}</Text>
+      </Link>
+      <Card>
+        <Text variant="bodyStrong" testID="lead-status">
+          {STATUS_LABELS[lead.status]} · season {lead.season} · first seen {formatDate(lead.firstSeen)}
+          {lead.fromBackBulb ? ' · from a back bulb' : ''}
+        </Text>
+        <Text testID="lead-summary">{summary}</Text>
+        {canWrite && last ? (
+          <View style={styles.group}>
+            <Text variant="label">Mark the sheath today</Text>
+            <View style={styles.row}>
+              {QUICK_SHEATH.map((sheath) => (
+                <Button
+                  key={sheath}
+                  label={SHEATH_LABELS[sheath]}
+                  tone={last.sheath === sheath ? 'primary' : 'secondary'}
+                  loading={mark.isPending && mark.variables?.sheath === sheath}
+                  testID={`mark-sheath-${sheath}`}
+                  onPress={() => mark.mutate({ date: localToday(), sheath, clientKey: newClientKey() })}
+                />
+              ))}
+            </View>
+            {markError ? <Text color="danger">{markError}</Text> : null}
+          </View>
+        ) : null}
+        {canWrite && (lead.status === 'growing' || lead.status === 'mature') ? (
+          ending ? (
+            <Confirm
+              message={`Mark lead ${lead.label} as ${STATUS_LABELS[ending].toLowerCase()}? It stops counting as a growing lead.`}
+              confirmLabel={`Mark ${STATUS_LABELS[ending].toLowerCase()}`}
+              busy={updateLead.isPending}
+              onCancel={() => setEnding(null)}
+              onConfirm={() => updateLead.mutate({ status: ending, version: lead.version }, { onSettled: () => setEnding(null) })}
+            />
+          ) : (
+            <View style={styles.row}>
+              <Button label="Mark dried off" tone="danger" onPress={() => setEnding('dried_off')} testID="mark-dried-off" />
+              <Button label="Mark rotted" tone="danger" onPress={() => setEnding('rotted')} testID="mark-rotted" />
+            </View>
+          )
+        ) : null}
+      </Card>
+      <View style={[styles.columns, wide && styles.columnsWide]}>
+        {canWrite ? (
+          <View style={styles.column}>
+            <Card title="Add a measurement" testID="add-measurement">
+              <MeasurementForm key={last?.id ?? 'first'} last={last} units={units} onSave={(input) => add.mutateAsync({ ...input, clientKey: newClientKey() })} />
+            </Card>
+          </View>
+        ) : null}
+        <View style={styles.column}>
+          <Card title="Measurements">
+            <MeasurementTable
+              collectionId={collectionId}
+              measurements={lead.measurements}
+              units={units}
+              canDelete={(m) => isOwner || (canWrite && m.createdBy === me.data?.user.id)}
+            />
+          </Card>
+          <Card title="Bloom">
+            <BloomForm key={lead.bloom?.version ?? 0} collectionId={collectionId} leadId={lead.id} bloom={lead.bloom} canWrite={canWrite} />
+          </Card>
+        </View>
+      </View>
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  group: { gap: spacing.xs },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },
+  columns: { gap: spacing.lg },
+  columnsWide: { flexDirection: 'row', alignItems: 'flex-start' },
+  column: { flex: 1, gap: spacing.lg, minWidth: 0 },
+});
