@@ -20,7 +20,7 @@ export function CollectionScreen() {
   return (
     <Screen title="Collection" subtitle={collection ? `${collection.name} · you are ${ROLE_LABELS[collection.role].toLowerCase()}` : undefined} testID="collection-screen">
       <View style={[styles.columns, wide && styles.columnsWide]}>
-        <View style={styles.column}>
+        <View style={[styles.column, wide && styles.columnWide]}>
           {collection ? <CollectionSettings collectionId={collection.id} /> : null}
           {collections.length > 1 ? (
             <Card title="Your collections">
@@ -44,7 +44,7 @@ export function CollectionScreen() {
             </Card>
           ) : null}
         </View>
-        <View style={styles.column}>
+        <View style={[styles.column, wide && styles.columnWide]}>
           {collection ? <MemberList collectionId={collection.id} myRole={collection.role} myUserId={me.data?.user.id} /> : null}
           <Card title="Your account">
             <Text>
@@ -61,7 +61,8 @@ export function CollectionScreen() {
 const styles = StyleSheet.create({
   columns: { gap: spacing.lg },
   columnsWide: { flexDirection: 'row', alignItems: 'flex-start' },
-  column: { flex: 1, gap: spacing.lg, minWidth: 0 },
+  column: { gap: spacing.lg, minWidth: 0 },
+  columnWide: { flex: 1 },
   switchRow: { flexDirection: 'row', alignItems: 'center', gap: spacing.md },
   grow: { flex: 1 },
 });

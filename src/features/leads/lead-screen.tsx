@@ -99,13 +99,13 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
       </Card>
       <View style={[styles.columns, wide && styles.columnsWide]}>
         {canWrite ? (
-          <View style={styles.column}>
+          <View style={[styles.column, wide && styles.columnWide]}>
             <Card title="Add a measurement" testID="add-measurement">
               <MeasurementForm key={last?.id ?? 'first'} last={last} units={units} onSave={(input) => add.mutateAsync({ ...input, clientKey: newClientKey() })} />
             </Card>
           </View>
         ) : null}
-        <View style={styles.column}>
+        <View style={[styles.column, wide && styles.columnWide]}>
           <Card title="Measurements">
             <MeasurementTable
               collectionId={collectionId}
@@ -128,5 +128,6 @@ const styles = StyleSheet.create({
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },
   columns: { gap: spacing.lg },
   columnsWide: { flexDirection: 'row', alignItems: 'flex-start' },
-  column: { flex: 1, gap: spacing.lg, minWidth: 0 },
+  column: { gap: spacing.lg, minWidth: 0 },
+  columnWide: { flex: 1 },
 });

@@ -61,7 +61,7 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
         <Text color="accent">‹ All plants</Text>
       </Link>
       <View style={[styles.columns, wide && styles.columnsWide]}>
-        <View style={styles.column}>
+        <View style={[styles.column, wide && styles.columnWide]}>
           <Card>
             {facts.map((fact) => (
               <Text key={fact as string}>{fact}</Text>
@@ -108,7 +108,7 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
             ))}
           </Card>
         </View>
-        <View style={styles.column}>
+        <View style={[styles.column, wide && styles.columnWide]}>
           <Lineage plant={plant} />
           <CareSection collectionId={collectionId} plantId={plant.id} entries={plant.care} areas={areas.data ?? []} canWrite={canWrite} />
         </View>
@@ -120,7 +120,8 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
 const styles = StyleSheet.create({
   columns: { gap: spacing.lg },
   columnsWide: { flexDirection: 'row', alignItems: 'flex-start' },
-  column: { flex: 1, gap: spacing.lg, minWidth: 0 },
+  column: { gap: spacing.lg, minWidth: 0 },
+  columnWide: { flex: 1 },
   actions: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },
   season: { gap: spacing.xs },
   leadRow: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },

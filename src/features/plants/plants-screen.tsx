@@ -128,7 +128,7 @@ function PlantRow({ plant, units, wide }: { plant: PlantListItem; units: 'mm' | 
   const where = [plant.areaName, plant.medium].filter(Boolean).join(' · ');
   return (
     <Link href={`/plants/${plant.id}`} asChild>
-      <Pressable style={[styles.row, wide && styles.rowWide]} testID={`plant-row-${plant.tag}`} accessibilityRole="link">
+      <Pressable style={StyleSheet.flatten([styles.row, wide && styles.rowWide])} testID={`plant-row-${plant.tag}`} accessibilityRole="link">
         <View style={styles.rowHead}>
           <Text variant="bodyStrong">{plantDisplayName(plant)}</Text>
           <Text variant="caption" color="textMuted">

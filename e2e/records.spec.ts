@@ -1,0 +1,116 @@
+import { currentCollectionId, daysAgo, signInAs } from './support/session';
+import { expect, keepScreenshot, test } from './support/fixtures';
+
+test('a grower adds a plant and a lead, records three measurements, marks the sheath budded, and it all survives a reload', async ({ page }, info) => {
+  await signInAs(page, 'grower');
+  const tag = `E2E-${info.project.name}-${Date.now() % 100000}`;
+
+  await page.getByTestId('tab-plants').click();
+  await page.getByTestId('add-plant').click();
+  await expect(page.getByTestId('new-plant-screen')).toBeVisible();
+  await page.getByTestId('plant-tag').fill(tag);
+  await page.getByTestId('plant-genus').fill('C.');
+  await page.getByTestId('plant-epithet').fill('Tidewater Glow');
+  await page.getByTestId('plant-clonal').fill('Morning');
+  await page.getByTestId('plant-medium').fill('bark');
+  await page.getByTestId('save-plant').click();
+
+  await expect(page.getByTestId('plant-screen')).toBeVisible();
+  await expect(page.getByTestId('plant-screen').getByText("C. Tidewater Glow 'Morning'")).toBeVisible();
+
+  await page.getByTestId('add-lead').click();
+  await page.getByTestId('lead-first-seen').fill(daysAgo(40));
+  await page.getByTestId('save-lead').click();
+  await expect(page.getByTestId('add-lead-form')).toHaveCount(0);
+  await page.locator('[data-testid^="lead-link-"]').first().click();
+  await expect(page.getByTestId('lead-screen')).toBeVisible();
+
+  const entries = [
+    [daysAgo(28), '41'],
+    [daysAgo(14), '63'],
+    [daysAgo(0), '88'],
+  ] as const;
+  for (const [date, height] of entries) {
+    await page.getByTestId('measure-date').fill(date);
+    await page.getByTestId('measure-height').fill(height);
+    await page.getByTestId('measure-leaves').fill('2');
+    await page.getByTestId('measure-save').click();
+    await expect(page.getByTestId(`measurement-${date}`)).toBeVisible();
+  }
+
+  await page.getByTestId('mark-sheath-budded').click();
+  await expect(page.getByTestId('lead-summary')).toContainText('buds in sheath');
+
+  await page.reload();
+  await expect(page.getByTestId('lead-screen')).toBeVisible();
+  for (const [date, height] of entries) {
+    // Today has two rows: the measurement and the sheath mark that carried its height forward.
+    await expect(page.getByTestId(`measurement-${date}`).first()).toContainText(`${height} mm`);
+  }
+  await expect(page.getByTestId('measurement-table').getByRole('row')).toHaveCount(5);
+  await expect(page.getByTestId('lead-summary')).toContainText('88 mm');
+  await expect(page.getByTestId('lead-summary')).toContainText('buds in sheath');
+  await keepScreenshot(page, 'lead', info.project.name);
+});
+
+test('a measurement that makes no sense is refused before anything is saved', async ({ page }) => {
+  await signInAs(page, 'grower');
+  await page.getByTestId('tab-plants').click();
+  await page.locator('[data-testid^="plant-row-"]').first().click();
+  await page.locator('[data-testid^="lead-link-"]').first().click();
+  await page.getByTestId('measure-height').fill('-5');
+  await page.getByTestId('measure-save').click();
+  await expect(page.getByText('Height cannot be negative')).toBeVisible();
+  await page.getByTestId('measure-height').fill('80');
+  await page.getByTestId('measure-date').fill('2999-01-01');
+  await page.getByTestId('measure-save').click();
+  await expect(page.getByText(/future/i)).toBeVisible();
+});
+
+test('Rounds: three plants measured with the network cut are each stored exactly once when it returns', async ({ page, context }, info) => {
+  await signInAs(page, 'grower');
+  const collectionId = await currentCollectionId(page);
+  const rounds = await (await page.request.get(`/api/collections/${collectionId}/rounds`)).json();
+  const measurable = (rounds.stops as Array<{ leads: Array<{ id: string; label: string; status: string }> }>).map((s) =>
+    s.leads.filter((l) => l.status === 'growing' || l.status === 'mature'),
+  );
+
+  await page.getByTestId('tab-rounds').click();
+  await expect(page.getByTestId('rounds-stop')).toBeVisible();
+  // Start the walk from the first plant.
+  while (await page.getByTestId('rounds-previous').isEnabled()) await page.getByTestId('rounds-previous').click();
+
+  await context.setOffline(true);
+  const marker = `walk-${info.project.name}-${Date.now()}`;
+  const saved: Array<{ leadId: string; note: string }> = [];
+  for (let stop = 0; stop < measurable.length && saved.length < 3; stop += 1) {
+    const lead = measurable[stop][0];
+    if (lead) {
+      const note = `${marker}-${saved.length}`;
+      await page.getByTestId(`rounds-${lead.label}-note`).fill(note);
+      await page.getByTestId(`rounds-${lead.label}-save`).click();
+      await expect(page.getByTestId('outbox-status')).toContainText('kept on this device');
+      saved.push({ leadId: lead.id, note });
+    }
+    await page.getByTestId('rounds-next').click();
+  }
+  expect(saved).toHaveLength(3);
+  await expect(page.getByTestId('outbox-status')).toContainText('3 entries are kept on this device');
+  await keepScreenshot(page, 'rounds-offline', info.project.name);
+
+  await context.setOffline(false);
+  await page.evaluate(() => window.dispatchEvent(new Event('online')));
+  await expect(page.getByTestId('outbox-status')).toHaveCount(0, { timeout: 20_000 });
+
+  for (const { leadId, note } of saved) {
+    const lead = await (await page.request.get(`/api/collections/${collectionId}/leads/${leadId}`)).json();
+    const matching = (lead.measurements as Array<{ note: string | null }>).filter((m) => m.note === note);
+    expect(matching, `lead ${leadId}`).toHaveLength(1);
+  }
+
+  // Leaving and coming back resumes at the same plant.
+  const here = await page.getByTestId('rounds-progress').textContent();
+  await page.getByTestId('tab-today').click();
+  await page.getByTestId('tab-rounds').click();
+  await expect(page.getByTestId('rounds-progress')).toHaveText(here!);
+});
