@@ -157,8 +157,8 @@ export function MeasurementForm({ last, units, onSave, saveLabel = 'Save measure
 
 const styles = StyleSheet.create({
   form: { gap: spacing.md },
-  pair: { flexDirection: 'row', gap: spacing.md, flexWrap: 'wrap' },
-  half: { flex: 1, minWidth: 150 },
+  pair: { gap: spacing.md },
+  half: {},
   group: { gap: spacing.xs },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
 });
