@@ -1,5 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
+import compression from 'compression';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import pino, { type Logger } from 'pino';
@@ -12,8 +13,14 @@ import { originCheck } from './middleware/origin';
 import { createRateLimits, type RateLimits } from './middleware/rate-limit';
 import { sessionMiddleware } from './middleware/session';
 import { authRoutes } from './routes/auth';
+import { areaRoutes } from './routes/areas';
+import { careRoutes } from './routes/care';
 import { collectionRoutes } from './routes/collections';
 import { healthRoutes } from './routes/health';
+import { leadRoutes } from './routes/leads';
+import { measurementRoutes } from './routes/measurements';
+import { plantRoutes } from './routes/plants';
+import { roundRoutes } from './routes/rounds';
 
 export const JSON_BODY_LIMIT = '100kb';
 
@@ -67,6 +74,8 @@ export function createApp(options: AppOptions): Express {
       crossOriginEmbedderPolicy: false,
     }),
   );
+  // The web bundle and JSON compress to about a quarter; phones on slow links feel it.
+  app.use(compression());
   app.use(
     pinoHttp({
       logger,
@@ -100,6 +109,12 @@ export function createApp(options: AppOptions): Express {
   api.use(healthRoutes(ctx));
   api.use(authRoutes(ctx));
   api.use(collectionRoutes(ctx));
+  api.use(areaRoutes(ctx));
+  api.use(plantRoutes(ctx));
+  api.use(leadRoutes(ctx));
+  api.use(measurementRoutes(ctx));
+  api.use(careRoutes(ctx));
+  api.use(roundRoutes(ctx));
   api.use((req, _res, next) => next(new HttpError(404, 'no_route', `No API route ${req.method} ${req.path}`)));
   app.use('/api', api);
 

@@ -17,6 +17,20 @@ export class HttpError extends Error {
 
 export const notFound = (what = 'That record') => new HttpError(404, 'not_found', `${what} was not found`);
 
+/** A save of a stale copy (409): the body carries the record as it now stands (staleBodySchema). */
+export class StaleError extends HttpError {
+  constructor(
+    readonly current: unknown,
+    message = 'Someone else saved a newer version; review it and save again',
+  ) {
+    super(409, 'stale', message);
+  }
+}
+
+/** A 400 for one field, in the same shape as a failed schema check. */
+export const fieldError = (field: string, reason: string) =>
+  new HttpError(400, 'invalid_input', 'Some fields need attention', [{ field, reason }]);
+
 /** Turns zod issues into `{ field, reason }` pairs; `prefix` names where the input came from. */
 export function fieldIssues(error: ZodError, prefix?: string): FieldIssue[] {
   return error.issues.map((issue) => {
@@ -36,6 +50,15 @@ function isDatabaseDown(error: unknown): boolean {
   );
 }
 
+/** The PostgreSQL error code, whether the driver's error arrives bare or wrapped by the ORM. */
+function sqlState(error: unknown): string | undefined {
+  for (let e: unknown = error, depth = 0; e && depth < 4; e = (e as { cause?: unknown }).cause, depth += 1) {
+    const code = (e as { code?: unknown }).code;
+    if (typeof code === 'string' && /^[0-9A-Z]{5}$/.test(code)) return code;
+  }
+  return undefined;
+}
+
 function body(code: string, message: string, details?: FieldIssue[]): ErrorBody {
   return { error: details ? { code, message, details } : { code, message } };
 }
@@ -45,6 +68,10 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (error, req, res, _next) => {
     if (res.headersSent) {
       res.end();
+      return;
+    }
+    if (error instanceof StaleError) {
+      res.status(409).json({ error: { code: error.code, message: error.message }, current: error.current });
       return;
     }
     if (error instanceof HttpError) {
@@ -66,6 +93,12 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     }
     if (type === 'charset.unsupported' || type === 'encoding.unsupported') {
       res.status(415).json(body('unsupported_encoding', 'The request body uses an unsupported encoding'));
+      return;
+    }
+    if (sqlState(error) === '23503') {
+      // A record the request refers to was deleted by someone else between the checks and the write.
+      logger.warn({ err: error, url: req.originalUrl }, 'foreign key violation');
+      res.status(409).json(body('gone', 'A record this refers to was just removed; reload and try again'));
       return;
     }
     if (isDatabaseDown(error)) {

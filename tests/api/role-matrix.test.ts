@@ -1,5 +1,15 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/app';
+import {
+  buildAreaInput,
+  buildBloomInput,
+  buildCareInput,
+  buildLeadInput,
+  buildMeasurementInput,
+  buildPlantInput,
+  buildRecords,
+  daysAgo,
+} from '../factories/records';
 import { buildCollectionWithMembers, buildSignUp } from '../factories/users';
 import { testDb } from './support/database';
 import { registeredRoutes } from './support/routes';
@@ -39,6 +49,34 @@ const MATRIX: Record<string, Entry> = {
   'GET /api/collections/:collectionId/members': { expected: MEMBERS('viewer', 200) },
   'PATCH /api/collections/:collectionId/members/:userId': { expected: MEMBERS('owner', 200), body: () => ({ role: 'viewer' }) },
   'DELETE /api/collections/:collectionId/members/:userId': { expected: MEMBERS('owner', 204) },
+  'GET /api/collections/:collectionId/areas': { expected: MEMBERS('viewer', 200) },
+  'POST /api/collections/:collectionId/areas': { expected: MEMBERS('grower', 201), body: () => buildAreaInput() },
+  'PATCH /api/collections/:collectionId/areas/:areaId': { expected: MEMBERS('grower', 200), body: () => ({ version: 1, indoors: true }) },
+  'DELETE /api/collections/:collectionId/areas/:areaId': { expected: MEMBERS('owner', 204) },
+  'POST /api/collections/:collectionId/areas/:areaId/care': { expected: MEMBERS('grower', 201), body: () => buildCareInput() },
+  'GET /api/collections/:collectionId/plants': { expected: MEMBERS('viewer', 200) },
+  'POST /api/collections/:collectionId/plants': { expected: MEMBERS('grower', 201), body: () => buildPlantInput() },
+  'GET /api/collections/:collectionId/plants/:plantId': { expected: MEMBERS('viewer', 200) },
+  'PATCH /api/collections/:collectionId/plants/:plantId': { expected: MEMBERS('grower', 200), body: () => ({ version: 1, medium: 'sphagnum' }) },
+  'DELETE /api/collections/:collectionId/plants/:plantId': { expected: MEMBERS('owner', 204) },
+  'POST /api/collections/:collectionId/plants/:plantId/divide': {
+    expected: MEMBERS('grower', 201),
+    body: () => ({ dividedOn: daysAgo(1), pieces: [{ tag: 'Division A', bulbCount: 4 }] }),
+  },
+  'POST /api/collections/:collectionId/plants/:plantId/leads': { expected: MEMBERS('grower', 201), body: () => buildLeadInput() },
+  'POST /api/collections/:collectionId/plants/:plantId/care': { expected: MEMBERS('grower', 201), body: () => buildCareInput() },
+  'GET /api/collections/:collectionId/leads/:leadId': { expected: MEMBERS('viewer', 200) },
+  'PATCH /api/collections/:collectionId/leads/:leadId': { expected: MEMBERS('grower', 200), body: () => ({ version: 1, status: 'mature' }) },
+  'DELETE /api/collections/:collectionId/leads/:leadId': { expected: MEMBERS('owner', 204) },
+  'POST /api/collections/:collectionId/leads/:leadId/measurements': { expected: MEMBERS('grower', 201), body: () => buildMeasurementInput() },
+  'POST /api/collections/:collectionId/leads/:leadId/sheath': { expected: MEMBERS('grower', 201), body: () => ({ date: daysAgo(0), sheath: 'budded' }) },
+  'PUT /api/collections/:collectionId/leads/:leadId/bloom': { expected: MEMBERS('grower', 201), body: () => buildBloomInput() },
+  'PATCH /api/collections/:collectionId/measurements/:measurementId': { expected: MEMBERS('grower', 200), body: () => ({ version: 1, heightMm: 55 }) },
+  /** The fixture's measurement and care entry were recorded by the grower, who may delete them. */
+  'DELETE /api/collections/:collectionId/measurements/:measurementId': { expected: MEMBERS('grower', 204) },
+  'DELETE /api/collections/:collectionId/care/:careId': { expected: MEMBERS('grower', 204) },
+  'GET /api/collections/:collectionId/rounds': { expected: MEMBERS('viewer', 200) },
+  'PUT /api/collections/:collectionId/rounds/order': { expected: MEMBERS('grower', 200), body: () => ({ plantIds: [] }) },
 };
 
 const PRINCIPALS: Principal[] = ['anonymous', 'outsider', 'viewer', 'grower', 'owner'];
@@ -65,10 +103,16 @@ describe('role matrix', () => {
   it.each(cases)('$route as $principal → $status', async ({ route, principal, entry, status }) => {
     // A fresh collection for every case, so deletions cannot leak into the next one.
     const fixture = await buildCollectionWithMembers(testDb());
+    const records = await buildRecords(testDb(), fixture.collectionId, fixture.people.grower.id);
     const [method, template] = route.split(' ');
     const path = template
       .replace(':collectionId', fixture.collectionId)
-      .replace(':userId', fixture.people.grower.id);
+      .replace(':userId', fixture.people.grower.id)
+      .replace(':areaId', records.area.id)
+      .replace(':plantId', records.plant.id)
+      .replace(':leadId', records.lead.id)
+      .replace(':measurementId', records.measurement.id)
+      .replace(':careId', records.care.id);
     const cookie = principal === 'anonymous' ? undefined : fixture.people[principal].cookie;
     const res = await browser(server.url, cookie).send(method.toLowerCase() as 'get', path, entry.body?.());
     expect(res.status, JSON.stringify(res.body)).toBe(status);

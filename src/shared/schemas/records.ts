@@ -25,7 +25,11 @@ export const areaInputSchema = z.object({
   indoors: z.boolean().default(false),
   notes: optionalText(2000),
 });
-export const updateAreaInputSchema = areaInputSchema.partial().extend({ version: versionSchema });
+export const updateAreaInputSchema = areaInputSchema.partial().extend({
+  version: versionSchema,
+  /** The area's place in the walking order (Rounds sorts unordered plants by it). */
+  position: z.number({ error: 'Position is a whole number' }).int('Position is a whole number').min(0, 'Position cannot be negative').max(100_000).optional(),
+});
 
 export const areaSchema = z.object({
   id: idSchema,

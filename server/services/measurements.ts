@@ -1,0 +1,203 @@
+import { and, asc, eq, lte, sql } from 'drizzle-orm';
+import type { z } from 'zod';
+import type { Role } from '@/shared/schemas/auth';
+import type {
+  BloomRecord,
+  bloomInputSchema,
+  Measurement,
+  measurementInputSchema,
+  sheathMarkInputSchema,
+  updateMeasurementInputSchema,
+} from '@/shared/schemas/records';
+import type { Database } from '../../db/client';
+import { bloomRecords, leads, measurements } from '../../db/schema';
+import { fieldError, HttpError, notFound, StaleError } from '../errors';
+import { requireLead } from './leads';
+import { latestMeasurementOrder, toBloom, toMeasurement } from './records-read';
+import { assertNotBeforeFirstSeen, assertNotFuture, type Executor } from './records-support';
+
+type MeasurementInput = z.infer<typeof measurementInputSchema>;
+type MeasurementChanges = Partial<Omit<z.infer<typeof updateMeasurementInputSchema>, 'version'>>;
+type Member = { collectionId: string; userId: string; role: Role };
+
+/** `created` is false when the client key had been seen: the stored entry is returned. */
+export interface Recorded {
+  measurement: Measurement;
+  created: boolean;
+}
+
+function assertMeasurementDate(date: string, firstSeen: string) {
+  assertNotFuture(date, 'date');
+  assertNotBeforeFirstSeen(date, firstSeen, 'date');
+}
+
+async function byClientKey(db: Executor, collectionId: string, leadId: string, clientKey: string): Promise<Recorded | undefined> {
+  const [row] = await db
+    .select()
+    .from(measurements)
+    .where(and(eq(measurements.collectionId, collectionId), eq(measurements.clientKey, clientKey)))
+    .limit(1);
+  if (!row) return undefined;
+  if (row.leadId !== leadId) {
+    throw new HttpError(409, 'client_key_reused', 'That entry key was already used for another lead; send a fresh key', [
+      { field: 'clientKey', reason: 'already used for another lead' },
+    ]);
+  }
+  return { measurement: toMeasurement(row), created: false };
+}
+
+/**
+ * Stores one measurement, at most once per client key: a repeat (a retried upload from the
+ * Rounds walk) returns the stored entry and writes nothing. Two copies racing each other
+ * meet the unique index; ON CONFLICT DO NOTHING lets the loser read the winner's row.
+ */
+async function insertOnce(
+  db: Database,
+  member: Member,
+  leadId: string,
+  values: Omit<typeof measurements.$inferInsert, 'collectionId' | 'leadId' | 'createdBy'>,
+): Promise<Recorded> {
+  const insert = db
+    .insert(measurements)
+    .values({ ...values, collectionId: member.collectionId, leadId, createdBy: member.userId });
+  if (!values.clientKey) {
+    const [row] = await insert.returning();
+    return { measurement: toMeasurement(row), created: true };
+  }
+  const [row] = await insert.onConflictDoNothing({ target: [measurements.collectionId, measurements.clientKey] }).returning();
+  if (row) return { measurement: toMeasurement(row), created: true };
+  const stored = await byClientKey(db, member.collectionId, leadId, values.clientKey);
+  if (!stored) throw new Error('client key conflict without a stored row');
+  return stored;
+}
+
+export async function recordMeasurement(db: Database, member: Member, leadId: string, input: MeasurementInput): Promise<Recorded> {
+  const lead = await requireLead(db, member.collectionId, leadId);
+  if (input.clientKey) {
+    const stored = await byClientKey(db, member.collectionId, lead.id, input.clientKey);
+    if (stored) return stored;
+  }
+  assertMeasurementDate(input.date, lead.firstSeen);
+  const { date, ...rest } = input;
+  return insertOnce(db, member, lead.id, { ...rest, measuredOn: date, clientKey: input.clientKey ?? null });
+}
+
+/**
+ * One tap on the Lead screen: a measurement on `date` with the new sheath state, carrying
+ * forward the sizes of the latest measurement on or before that date (or, when the tap is
+ * dated before every measurement, the earliest one).
+ */
+export async function markSheath(db: Database, member: Member, leadId: string, input: z.infer<typeof sheathMarkInputSchema>): Promise<Recorded> {
+  const lead = await requireLead(db, member.collectionId, leadId);
+  if (input.clientKey) {
+    const stored = await byClientKey(db, member.collectionId, lead.id, input.clientKey);
+    if (stored) return stored;
+  }
+  assertMeasurementDate(input.date, lead.firstSeen);
+  const [before] = await db
+    .select()
+    .from(measurements)
+    .where(and(eq(measurements.leadId, lead.id), lte(measurements.measuredOn, input.date)))
+    .orderBy(...latestMeasurementOrder)
+    .limit(1);
+  const [base] = before
+    ? [before]
+    : await db.select().from(measurements).where(eq(measurements.leadId, lead.id)).orderBy(asc(measurements.measuredOn)).limit(1);
+  if (!base) throw fieldError('sheath', 'Record a height first: marking the sheath carries the last height forward');
+  return insertOnce(db, member, lead.id, {
+    measuredOn: input.date,
+    heightMm: base.heightMm,
+    leafCount: base.leafCount,
+    rootTips: base.rootTips,
+    bulbWidthMm: base.bulbWidthMm,
+    sheath: input.sheath,
+    clientKey: input.clientKey ?? null,
+  });
+}
+
+async function findMeasurement(db: Executor, collectionId: string, measurementId: string) {
+  const [row] = await db
+    .select({ measurement: measurements, firstSeen: leads.firstSeen })
+    .from(measurements)
+    .innerJoin(leads, eq(leads.id, measurements.leadId))
+    .where(and(eq(measurements.id, measurementId), eq(measurements.collectionId, collectionId)))
+    .limit(1);
+  if (!row) throw notFound('That measurement');
+  return row;
+}
+
+export async function updateMeasurement(
+  db: Database,
+  collectionId: string,
+  measurementId: string,
+  version: number,
+  changes: MeasurementChanges,
+): Promise<Measurement> {
+  const { firstSeen } = await findMeasurement(db, collectionId, measurementId);
+  const { date, ...rest } = changes;
+  if (date !== undefined) assertMeasurementDate(date, firstSeen);
+  const [row] = await db
+    .update(measurements)
+    .set({ ...rest, ...(date !== undefined ? { measuredOn: date } : {}), version: sql`${measurements.version} + 1`, updatedAt: sql`now()` })
+    .where(and(eq(measurements.id, measurementId), eq(measurements.collectionId, collectionId), eq(measurements.version, version)))
+    .returning();
+  if (row) return toMeasurement(row);
+  throw new StaleError(toMeasurement((await findMeasurement(db, collectionId, measurementId)).measurement));
+}
+
+/** An owner may delete any measurement; a grower only one they recorded. */
+export async function deleteMeasurement(db: Database, member: Member, measurementId: string): Promise<void> {
+  const { measurement } = await findMeasurement(db, member.collectionId, measurementId);
+  if (member.role !== 'owner' && measurement.createdBy !== member.userId) {
+    throw new HttpError(403, 'forbidden', 'A grower may delete only the measurements they recorded; ask an owner');
+  }
+  await db.delete(measurements).where(and(eq(measurements.id, measurement.id), eq(measurements.collectionId, member.collectionId)));
+}
+
+// ── Bloom records ─────────────────────────────────────────────────────────────────────
+
+const BLOOM_DATES = ['budsSeenOn', 'firstOpenOn', 'lastFadedOn'] as const;
+
+/**
+ * Creates the lead's bloom record, or replaces it when the client sends the version it
+ * read. A save without the version (or with an old one) while a record exists is stale.
+ */
+export async function putBloom(
+  db: Database,
+  collectionId: string,
+  leadId: string,
+  input: z.infer<typeof bloomInputSchema>,
+): Promise<{ bloom: BloomRecord; created: boolean }> {
+  const lead = await requireLead(db, collectionId, leadId);
+  for (const field of BLOOM_DATES) {
+    assertNotFuture(input[field], field);
+    assertNotBeforeFirstSeen(input[field], lead.firstSeen, field);
+  }
+  const { version, ...values } = input;
+  const current = async () => {
+    const [row] = await db.select().from(bloomRecords).where(eq(bloomRecords.leadId, lead.id)).limit(1);
+    return row;
+  };
+
+  const existing = await current();
+  if (!existing) {
+    const [row] = await db
+      .insert(bloomRecords)
+      .values({ ...values, collectionId, leadId: lead.id })
+      .onConflictDoNothing({ target: bloomRecords.leadId })
+      .returning();
+    if (row) return { bloom: toBloom(row), created: true };
+    // Someone else created it between our read and our insert.
+    throw new StaleError(toBloom((await current())!));
+  }
+  if (version === undefined) throw new StaleError(toBloom(existing), 'This lead already has a bloom record; review it and save again');
+  const [row] = await db
+    .update(bloomRecords)
+    .set({ ...values, version: sql`${bloomRecords.version} + 1`, updatedAt: sql`now()` })
+    .where(and(eq(bloomRecords.leadId, lead.id), eq(bloomRecords.version, version)))
+    .returning();
+  if (row) return { bloom: toBloom(row), created: false };
+  const now = await current();
+  if (!now) throw notFound('That bloom record');
+  throw new StaleError(toBloom(now));
+}
