@@ -4,12 +4,24 @@ import { hashPassword } from '../../server/auth';
 import type { Database } from '../client';
 import { collections, memberships, users } from '../schema';
 import { DEMO_ACCOUNTS, DEMO_COLLECTION_NAME, DEMO_PASSWORD } from './demo-accounts';
+import { DEMO_SEED, generateCollection } from './generate';
+import { insertGenerated } from './insert';
+
+/** Today's date in UTC, 'YYYY-MM-DD': the one place the demo seed reads the clock. */
+export function currentUtcDate(): string {
+  return new Date().toISOString().slice(0, 10);
+}
 
 /**
  * Seeds the invented demo collection when the database has no users yet; a database
- * that already holds anyone's records is never touched.
+ * that already holds anyone's records is never touched. The collection's records (about 40
+ * plants, four seasons, the current one in progress as of `today`) come from the
+ * deterministic generator with a fixed seed; the grower account made the measurements.
  */
-export async function seedDemo(db: Database, { log }: { log: (line: string) => void }): Promise<boolean> {
+export async function seedDemo(
+  db: Database,
+  { log, today = currentUtcDate() }: { log: (line: string) => void; today?: string },
+): Promise<boolean> {
   const [{ count }] = await db.select({ count: sql<number>`count(*)::int` }).from(users);
   if (count > 0) {
     log('database already has accounts; demo data not added');
@@ -17,18 +29,29 @@ export async function seedDemo(db: Database, { log }: { log: (line: string) => v
     return false;
   }
   const passwordHash = await hashPassword(DEMO_PASSWORD);
-  await db.transaction(async (tx) => {
+  const generated = await db.transaction(async (tx) => {
     const [collection] = await tx
       .insert(collections)
       .values({ name: DEMO_COLLECTION_NAME, seasonStartMonth: 3, units: 'mm' })
       .returning({ id: collections.id });
+    const idsByRole = new Map<string, string>();
     for (const account of DEMO_ACCOUNTS) {
       const id = generateIdFromEntropySize(10);
+      idsByRole.set(account.role, id);
       await tx.insert(users).values({ id, email: account.email, displayName: account.displayName, passwordHash });
       await tx.insert(memberships).values({ collectionId: collection.id, userId: id, role: account.role });
     }
+    const generated = generateCollection({ seed: DEMO_SEED, today, plants: 40, seasons: 4 });
+    await insertGenerated(tx, collection.id, generated, {
+      createdBy: idsByRole.get('grower') ?? null,
+      plantsCreatedBy: idsByRole.get('owner') ?? null,
+    });
+    return generated;
   });
-  log(`demo collection "${DEMO_COLLECTION_NAME}" created`);
+  log(
+    `demo collection "${DEMO_COLLECTION_NAME}" created: ${generated.plants.length} plants, ${generated.leads.length} leads, ` +
+      `${generated.measurements.length} measurements, seasons ${generated.seasons[0]}–${generated.currentSeason} (as of ${today})`,
+  );
   printAccounts(log);
   return true;
 }
