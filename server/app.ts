@@ -16,6 +16,7 @@ import { authRoutes } from './routes/auth';
 import { areaRoutes } from './routes/areas';
 import { careRoutes } from './routes/care';
 import { collectionRoutes } from './routes/collections';
+import { engineRoutes } from './routes/engine';
 import { healthRoutes } from './routes/health';
 import { leadRoutes } from './routes/leads';
 import { measurementRoutes } from './routes/measurements';
@@ -115,6 +116,7 @@ export function createApp(options: AppOptions): Express {
   api.use(measurementRoutes(ctx));
   api.use(careRoutes(ctx));
   api.use(roundRoutes(ctx));
+  api.use(engineRoutes(ctx));
   api.use((req, _res, next) => next(new HttpError(404, 'no_route', `No API route ${req.method} ${req.path}`)));
   app.use('/api', api);
 

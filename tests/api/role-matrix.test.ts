@@ -30,6 +30,8 @@ const MEMBERS = (minimum: 'viewer' | 'grower' | 'owner', status: number): Expect
 interface Entry {
   expected: Expected;
   body?: () => unknown;
+  /** Appended to the path when the route needs a query to answer 200. */
+  query?: string;
 }
 
 /**
@@ -77,6 +79,13 @@ const MATRIX: Record<string, Entry> = {
   'DELETE /api/collections/:collectionId/care/:careId': { expected: MEMBERS('grower', 204) },
   'GET /api/collections/:collectionId/rounds': { expected: MEMBERS('viewer', 200) },
   'PUT /api/collections/:collectionId/rounds/order': { expected: MEMBERS('grower', 200), body: () => ({ plantIds: [] }) },
+  // Growth engine: read-only, so any member may ask.
+  'GET /api/collections/:collectionId/leads/:leadId/forecast': { expected: MEMBERS('viewer', 200) },
+  'GET /api/collections/:collectionId/plants/:plantId/trend': { expected: MEMBERS('viewer', 200) },
+  'GET /api/collections/:collectionId/attention': { expected: MEMBERS('viewer', 200) },
+  'GET /api/collections/:collectionId/calendar': { expected: MEMBERS('viewer', 200) },
+  'GET /api/collections/:collectionId/backtest': { expected: MEMBERS('viewer', 200) },
+  'GET /api/collections/:collectionId/compare': { expected: MEMBERS('viewer', 200), query: '?by=medium' },
 };
 
 const PRINCIPALS: Principal[] = ['anonymous', 'outsider', 'viewer', 'grower', 'owner'];
@@ -112,7 +121,7 @@ describe('role matrix', () => {
       .replace(':plantId', records.plant.id)
       .replace(':leadId', records.lead.id)
       .replace(':measurementId', records.measurement.id)
-      .replace(':careId', records.care.id);
+      .replace(':careId', records.care.id) + (entry.query ?? '');
     const cookie = principal === 'anonymous' ? undefined : fixture.people[principal].cookie;
     const res = await browser(server.url, cookie).send(method.toLowerCase() as 'get', path, entry.body?.());
     expect(res.status, JSON.stringify(res.body)).toBe(status);
