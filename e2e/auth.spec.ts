@@ -75,14 +75,14 @@ test('the demo owner signs in, sees Today and every tab, in Source Sans 3', asyn
   // The font file really loaded (not a fallback).
   expect(await page.evaluate(() => document.fonts.check('16px SourceSans3_400Regular'))).toBe(true);
 
-  for (const [tab, screen, empty] of [
-    ['plants', 'plants-screen', 'No plants yet — add your first plant'],
-    ['rounds', 'rounds-screen', 'No plants to walk yet'],
-    ['calendar', 'calendar-screen', 'No bloom windows yet'],
+  for (const [tab, screen, content] of [
+    ['plants', 'plants-screen', 'plant-list'],
+    ['rounds', 'rounds-screen', 'rounds-stop'],
+    ['calendar', 'calendar-screen', 'empty-state'],
   ] as const) {
     await page.getByTestId(`tab-${tab}`).click();
     await expect(page.getByTestId(screen)).toBeVisible();
-    await expect(page.getByText(empty)).toBeVisible();
+    await expect(page.getByTestId(screen).getByTestId(content)).toBeVisible();
     await keepScreenshot(page, tab, info.project.name);
   }
 

@@ -100,7 +100,9 @@ test('Rounds: three plants measured with the network cut are each stored exactly
 
   await context.setOffline(false);
   await page.evaluate(() => window.dispatchEvent(new Event('online')));
-  await expect(page.getByTestId('outbox-status')).toHaveCount(0, { timeout: 20_000 });
+  await expect(page.getByText(/kept on this device/)).toHaveCount(0, { timeout: 20_000 });
+  await expect(page.getByText(/was refused/)).toHaveCount(0);
+  await expect(page.getByTestId('outbox-status')).toHaveCount(0);
 
   for (const { leadId, note } of saved) {
     const lead = await (await page.request.get(`/api/collections/${collectionId}/leads/${leadId}`)).json();

@@ -62,29 +62,35 @@ let flushing: Promise<number> | null = null;
  * grower to see. Returns how many were stored.
  */
 export function flushOutbox(): Promise<number> {
-  flushing ??= (async () => {
-    let sent = 0;
-    try {
-      for (const entry of entries.filter((e) => !e.refused)) {
-        try {
-          await postMeasurement(entry.collectionId, entry.leadId, { ...entry.input, clientKey: entry.clientKey });
-          write(entries.filter((e) => e.clientKey !== entry.clientKey));
-          sent += 1;
-        } catch (error) {
-          if (error instanceof ApiError && error.status >= 400 && error.status < 500) {
-            const reason = error.details.map((d) => d.reason).join('; ') || error.message;
-            write(entries.map((e) => (e.clientKey === entry.clientKey ? { ...e, refused: reason } : e)));
-            continue;
-          }
-          break;
-        }
-      }
-    } finally {
-      flushing = null;
-    }
-    return sent;
-  })();
+  if (flushing) return flushing;
+  // The browser knows it is offline: wait for its 'online' event instead of failing sends.
+  if (globalThis.navigator?.onLine === false) return Promise.resolve(0);
+  // Cleared in a .finally callback, which always runs after this assignment; a finally
+  // block inside the async function could run first (when nothing is waiting it finishes
+  // synchronously) and leave a settled promise here for good.
+  flushing = sendWaiting().finally(() => {
+    flushing = null;
+  });
   return flushing;
+}
+
+async function sendWaiting(): Promise<number> {
+  let sent = 0;
+  for (const entry of entries.filter((e) => !e.refused)) {
+    try {
+      await postMeasurement(entry.collectionId, entry.leadId, { ...entry.input, clientKey: entry.clientKey });
+      write(entries.filter((e) => e.clientKey !== entry.clientKey));
+      sent += 1;
+    } catch (error) {
+      if (error instanceof ApiError && error.status >= 400 && error.status < 500) {
+        const reason = error.details.map((d) => d.reason).join('; ') || error.message;
+        write(entries.map((e) => (e.clientKey === entry.clientKey ? { ...e, refused: reason } : e)));
+        continue;
+      }
+      break;
+    }
+  }
+  return sent;
 }
 
 /** The outbox's entries for one collection, sent whenever the browser is back online. */
