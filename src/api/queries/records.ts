@@ -67,10 +67,11 @@ export function usePlantQuery(collectionId: string, plantId: string) {
   });
 }
 
-export function useLeadQuery(collectionId: string, leadId: string) {
+export function useLeadQuery(collectionId: string, leadId: string | null | undefined) {
   return useQuery({
-    queryKey: recordKeys.lead(collectionId, leadId),
+    queryKey: recordKeys.lead(collectionId, leadId ?? 'none'),
     queryFn: () => request(`${base(collectionId)}/leads/${leadId}`, { schema: leadDetailSchema }),
+    enabled: !!leadId,
   });
 }
 

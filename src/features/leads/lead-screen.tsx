@@ -2,6 +2,7 @@ import { Link, useLocalSearchParams } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
+import { useLeadForecastQuery } from '@/api/queries/engine';
 import { useAddMeasurementMutation, useLeadQuery, useMarkSheathMutation, useUpdateLeadMutation } from '@/api/queries/records';
 import { useMeQuery } from '@/api/queries/session';
 import { Button } from '@/components/button';
@@ -22,6 +23,9 @@ import { SHEATH_LABELS, STATUS_LABELS } from '../plants/components/lead-chip';
 import { BloomForm } from './components/bloom-form';
 import { MeasurementForm } from './components/measurement-form';
 import { MeasurementTable } from './components/measurement-table';
+import { LeadChart } from './components/lead-chart';
+import { bloomSummary, leadChartData, leadSummary, trustSummary } from './lead-story';
+import type { LengthUnit } from '@/lib/units';
 
 const QUICK_SHEATH: SheathState[] = ['empty', 'budded', 'dry'];
 
@@ -98,13 +102,14 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
         ) : null}
       </Card>
       <View style={[styles.columns, wide && styles.columnsWide]}>
-        {canWrite ? (
-          <View style={[styles.column, wide && styles.columnWide]}>
+        <View style={[styles.column, wide && styles.columnWide]}>
+          {lead.measurements.length > 0 ? <GrowthCard lead={lead} collectionId={collectionId} units={units} /> : null}
+          {canWrite ? (
             <Card title="Add a measurement" testID="add-measurement">
               <MeasurementForm key={last?.id ?? 'first'} last={last} units={units} onSave={(input) => add.mutateAsync({ ...input, clientKey: newClientKey() })} />
             </Card>
-          </View>
-        ) : null}
+          ) : null}
+        </View>
         <View style={[styles.column, wide && styles.columnWide]}>
           <Card title="Measurements">
             <MeasurementTable
@@ -120,6 +125,35 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
         </View>
       </View>
     </Screen>
+  );
+}
+
+/** The engine's reading of the lead: chart, sentence, flags, bloom window and trust. */
+function GrowthCard({ lead, collectionId, units }: { lead: LeadDetail; collectionId: string; units: LengthUnit }) {
+  const forecast = useLeadForecastQuery(collectionId, lead.id);
+  const lastSeason = useLeadQuery(collectionId, forecast.data?.priorYears.lastSeason?.leadId);
+  return (
+    <Card title="Growth" testID="growth-card">
+      <QueryState query={forecast} loadingLabel="Fitting the growth curve…">
+        {(f) => {
+          const bloom = bloomSummary(f);
+          return (
+            <View style={styles.group}>
+              {f.flags.map((flag) => (
+                <Text key={flag.kind} color="danger" variant="bodyStrong" role="alert" testID={`flag-${flag.kind}`}>
+                  {flag.kind === 'aborted' ? 'Aborted' : 'Stalled'}: {flag.reason}
+                </Text>
+              ))}
+              <LeadChart data={leadChartData(lead, f, lastSeason.data ?? null, units)} summary={leadSummary(f, units)} />
+              {bloom ? <Text testID="bloom-summary">{bloom}</Text> : null}
+              <Text variant="caption" color="textMuted" testID="trust-summary">
+                {trustSummary(f)}
+              </Text>
+            </View>
+          );
+        }}
+      </QueryState>
+    </Card>
   );
 }
 
