@@ -19,12 +19,12 @@ export const TextField = forwardRef<TextInput, TextFieldProps>(function TextFiel
   const describedBy = error ? `${id}-error` : hint ? `${id}-hint` : undefined;
   return (
     <View style={styles.wrap}>
-      <Text variant="label" nativeID={`${id}-label`}>
+      <Text variant="label" aria-hidden>
         {label}
       </Text>
       <TextInput
         ref={ref}
-        aria-labelledby={`${id}-label`}
+        aria-label={label}
         aria-describedby={describedBy}
         aria-invalid={error ? true : undefined}
         placeholderTextColor={colors.textSubtle}
@@ -40,11 +40,11 @@ export const TextField = forwardRef<TextInput, TextFieldProps>(function TextFiel
         {...rest}
       />
       {error ? (
-        <Text variant="caption" color="danger" nativeID={`${id}-error`} accessibilityLiveRegion="polite" role="alert">
+        <Text variant="caption" color="danger" id={`${id}-error`} accessibilityLiveRegion="polite" role="alert">
           {error}
         </Text>
       ) : hint ? (
-        <Text variant="caption" color="textMuted" nativeID={`${id}-hint`}>
+        <Text variant="caption" color="textMuted" id={`${id}-hint`}>
           {hint}
         </Text>
       ) : null}

@@ -7,6 +7,10 @@ import { useIsWide } from '@/lib/use-is-wide';
 import { colors, radius, spacing, TOUCH_TARGET } from '@/theme';
 import { useCurrentCollection } from '../collections/current-collection';
 
+const RAIL_WIDTH = 232;
+/** Room at the top of the rail for the product's name and the open collection. */
+const BRAND_HEIGHT = 112;
+
 const TABS = [
   { name: 'today', href: '/', label: 'Today' },
   { name: 'plants', href: '/plants', label: 'Plants' },
@@ -21,34 +25,37 @@ export function AppTabs() {
   const insets = useSafeAreaInsets();
   const { collection } = useCurrentCollection();
   return (
-    <Tabs style={StyleSheet.flatten([styles.root, wide && styles.rootWide])}>
-      <View style={styles.slot}>
-        <TabSlot />
-      </View>
-      <TabList
-        accessibilityRole="tablist"
-        aria-label="Sections"
-        style={StyleSheet.flatten([wide ? styles.rail : styles.bar, !wide && { paddingBottom: Math.max(insets.bottom, spacing.xs) }])}
-      >
-          {wide ? (
-            <View style={styles.brand}>
-              <Text variant="title" color="onNav">
-                Sympodia
-              </Text>
-              {collection ? (
-                <Text variant="caption" color="onNavMuted" numberOfLines={2}>
-                  {collection.name}
-                </Text>
-              ) : null}
-            </View>
-          ) : null}
+    <View style={styles.frame}>
+      <Tabs style={StyleSheet.flatten([styles.root, wide && styles.rootWide])}>
+        <View style={styles.slot}>
+          <TabSlot />
+        </View>
+        <TabList
+          accessibilityRole="tablist"
+          aria-label="Sections"
+          style={StyleSheet.flatten([wide ? styles.rail : styles.bar, !wide && { paddingBottom: Math.max(insets.bottom, spacing.xs) }])}
+        >
           {TABS.map((tab) => (
             <TabTrigger key={tab.name} name={tab.name} href={tab.href} asChild>
               <TabButton label={tab.label} wide={wide} testID={`tab-${tab.name}`} />
             </TabTrigger>
           ))}
-      </TabList>
-    </Tabs>
+        </TabList>
+      </Tabs>
+      {wide ? (
+        // Drawn over the top of the rail: the tab list itself may hold only tabs.
+        <View style={styles.brand} pointerEvents="none">
+          <Text variant="title" color="onNav">
+            Sympodia
+          </Text>
+          {collection ? (
+            <Text variant="caption" color="onNavMuted" numberOfLines={2}>
+              {collection.name}
+            </Text>
+          ) : null}
+        </View>
+      ) : null}
+    </View>
   );
 }
 
@@ -99,13 +106,15 @@ const styles = StyleSheet.create({
   rail: {
     flexDirection: 'column',
     justifyContent: 'flex-start',
-    width: 232,
+    width: RAIL_WIDTH,
     backgroundColor: colors.nav,
-    paddingVertical: spacing.xl,
+    paddingTop: BRAND_HEIGHT,
+    paddingBottom: spacing.xl,
     paddingHorizontal: spacing.md,
     gap: spacing.xs,
   },
-  brand: { paddingHorizontal: spacing.md, paddingBottom: spacing.xl, gap: spacing.xs },
+  frame: { flex: 1 },
+  brand: { position: 'absolute', top: 0, left: 0, width: RAIL_WIDTH, height: BRAND_HEIGHT, paddingTop: spacing.xl, paddingHorizontal: spacing.xl, gap: spacing.xs },
   railItem: {
     flexDirection: 'row',
     alignItems: 'center',

@@ -67,7 +67,7 @@ function Walk({ stops, collectionId, canWrite, units, onEditOrder }: { stops: Ro
         </Text>
         {canWrite ? <Button label="Change the order" tone="quiet" onPress={onEditOrder} testID="edit-order" /> : null}
       </View>
-      <View style={styles.bar} accessibilityRole="progressbar" aria-valuemin={1} aria-valuemax={stops.length} aria-valuenow={index + 1}>
+      <View style={styles.bar} accessibilityRole="progressbar" aria-label="Progress through the walk" aria-valuemin={1} aria-valuemax={stops.length} aria-valuenow={index + 1}>
         <View style={[styles.barFill, { width: `${((index + 1) / stops.length) * 100}%` }]} />
       </View>
       <OutboxStatus waiting={waiting.length} refused={refused} />

@@ -54,7 +54,7 @@ function SettingsForm({ collection }: { collection: Collection }) {
         </Text>
       </View>
       <View style={styles.field}>
-        <Text variant="label" nativeID="season-start-label">
+        <Text variant="label">
           Growth year starts in
         </Text>
         <View style={styles.stepper}>
@@ -65,7 +65,7 @@ function SettingsForm({ collection }: { collection: Collection }) {
             disabled={!canEdit}
             onPress={() => setSeasonStartMonth((m) => (m === 1 ? 12 : m - 1))}
           />
-          <Text variant="bodyStrong" aria-labelledby="season-start-label" accessibilityLiveRegion="polite" style={styles.month}>
+          <Text variant="bodyStrong" aria-label={`Growth year starts in ${monthName(seasonStartMonth)}`} accessibilityLiveRegion="polite" style={styles.month}>
             {monthName(seasonStartMonth)}
           </Text>
           <Button

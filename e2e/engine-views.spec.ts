@@ -1,0 +1,72 @@
+import AxeBuilder from '@axe-core/playwright';
+import sharp from 'sharp';
+import { currentCollectionId, signInAs } from './support/session';
+import { expect, keepScreenshot, test } from './support/fixtures';
+
+async function seriousViolations(page: import('@playwright/test').Page) {
+  const results = await new AxeBuilder({ page }).analyze();
+  return results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help} (${v.nodes.length})`);
+}
+
+test('Today lists what the engine says needs a look, each linking to its lead', async ({ page }, info) => {
+  await signInAs(page, 'owner');
+  const collectionId = await currentCollectionId(page);
+  const api = await (await page.request.get(`/api/collections/${collectionId}/attention`)).json();
+  await expect(page.getByTestId('attention-list')).toBeVisible();
+  const shown = page.locator('[data-testid^="attention-item-"]');
+  await expect(shown).toHaveCount(api.items.length);
+  await keepScreenshot(page, 'today-attention', info.project.name);
+  expect(await seriousViolations(page)).toEqual([]);
+
+  const first = api.items[0];
+  await page.getByTestId(`attention-item-${first.plantTag}-${first.leadLabel}`).first().click();
+  await expect(page).toHaveURL(new RegExp(`/plants/${first.target.plantId}/leads/${first.target.leadId}$`));
+  await expect(page.getByTestId('lead-screen')).toBeVisible();
+});
+
+test('a lead chart draws, and its summary states the engine’s figures', async ({ page }, info) => {
+  await signInAs(page, 'owner');
+  const collectionId = await currentCollectionId(page);
+  const plants = await (await page.request.get(`/api/collections/${collectionId}/plants?q=SH-001`)).json();
+  const plant = plants.items[0];
+  const lead = plant.currentLeads[0];
+  const forecast = await (await page.request.get(`/api/collections/${collectionId}/leads/${lead.id}/forecast`)).json();
+
+  await page.goto(`/plants/${plant.id}/leads/${lead.id}`);
+  const canvas = page.getByTestId('lead-chart-canvas').locator('canvas').first();
+  await expect(canvas).toBeVisible({ timeout: 20_000 });
+  await page.waitForTimeout(500);
+
+  // The chart drew: count pixels that are clearly not the white card behind it.
+  const { data, info: image } = await sharp(await canvas.screenshot()).raw().toBuffer({ resolveWithObject: true });
+  let drawn = 0;
+  for (let i = 0; i < data.length; i += image.channels) if (data[i] + data[i + 1] + data[i + 2] < 600) drawn += 1;
+  expect(drawn / (image.width * image.height)).toBeGreaterThan(0.01);
+
+  const last = forecast.priorYears.lastSeason;
+  const summary = page.getByTestId('chart-summary');
+  if (last?.sizeRatio != null) {
+    await expect(summary).toContainText(`${Math.round(last.sizeRatio * 100)}% of last season's size at day ${forecast.priorYears.ageDays}`);
+  } else {
+    await expect(summary).toContainText(`at day ${forecast.priorYears.ageDays}`);
+  }
+  await keepScreenshot(page, 'lead-chart', info.project.name);
+  expect(await seriousViolations(page)).toEqual([]);
+
+  // The text alternative carries the same numbers.
+  await page.getByTestId('chart-toggle').click();
+  await expect(page.getByTestId('chart-table').getByRole('row')).toHaveCount(1 + forecast.fit.n);
+});
+
+test('Plants, Rounds and Collection pass axe with no serious or critical violations', async ({ page }) => {
+  await signInAs(page, 'owner');
+  for (const [tab, screen] of [
+    ['plants', 'plant-list'],
+    ['rounds', 'rounds-stop'],
+    ['collection', 'member-list'],
+  ] as const) {
+    await page.getByTestId(`tab-${tab}`).click();
+    await expect(page.getByTestId(screen)).toBeVisible();
+    expect(await seriousViolations(page), tab).toEqual([]);
+  }
+});
