@@ -20,6 +20,7 @@ import { DivideForm } from './components/divide-form';
 import { EditPlantForm } from './components/edit-plant-form';
 import { LeadChip } from './components/lead-chip';
 import { Lineage } from './components/lineage';
+import { PlantTrend } from './components/plant-trend';
 
 type Panel = 'none' | 'lead' | 'edit' | 'divide' | 'delete';
 
@@ -109,6 +110,7 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
           </Card>
         </View>
         <View style={[styles.column, wide && styles.columnWide]}>
+          <PlantTrend collectionId={collectionId} plantId={plant.id} units={units} />
           <Lineage plant={plant} />
           <CareSection collectionId={collectionId} plantId={plant.id} entries={plant.care} areas={areas.data ?? []} canWrite={canWrite} />
         </View>

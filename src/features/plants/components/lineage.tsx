@@ -51,6 +51,11 @@ export function Lineage({ plant }: { plant: PlantDetail }) {
           ))}
         </View>
       ) : null}
+      <Link href={`/plants/compare?by=family&plantId=${plant.id}`} testID="compare-family">
+        <Text color="accent" variant="bodyStrong">
+          Compare the family side by side ›
+        </Text>
+      </Link>
     </Card>
   );
 }
