@@ -2,25 +2,24 @@ import { StyleSheet, View } from 'react-native';
 import { useSignOutMutation, useMeQuery } from '@/api/queries/session';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
+import { Column, Columns } from '@/components/columns';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
 import { ROLE_LABELS } from '@/lib/format';
-import { useIsWide } from '@/lib/use-is-wide';
 import { spacing } from '@/theme';
 import { useCurrentCollection } from './current-collection';
 import { CollectionSettings } from './components/collection-settings';
 import { MemberList } from './components/member-list';
 
 export function CollectionScreen() {
-  const wide = useIsWide();
   const me = useMeQuery();
   const signOut = useSignOutMutation();
   const { collection, collections, select } = useCurrentCollection();
 
   return (
     <Screen title="Collection" subtitle={collection ? `${collection.name} · you are ${ROLE_LABELS[collection.role].toLowerCase()}` : undefined} testID="collection-screen">
-      <View style={[styles.columns, wide && styles.columnsWide]}>
-        <View style={[styles.column, wide && styles.columnWide]}>
+      <Columns>
+        <Column>
           {collection ? <CollectionSettings collectionId={collection.id} /> : null}
           {collections.length > 1 ? (
             <Card title="Your collections">
@@ -43,8 +42,8 @@ export function CollectionScreen() {
               ))}
             </Card>
           ) : null}
-        </View>
-        <View style={[styles.column, wide && styles.columnWide]}>
+        </Column>
+        <Column>
           {collection ? <MemberList collectionId={collection.id} myRole={collection.role} myUserId={me.data?.user.id} /> : null}
           <Card title="Your account">
             <Text>
@@ -52,17 +51,13 @@ export function CollectionScreen() {
             </Text>
             <Button label="Sign out" tone="secondary" testID="sign-out" loading={signOut.isPending} onPress={() => signOut.mutate()} />
           </Card>
-        </View>
-      </View>
+        </Column>
+      </Columns>
     </Screen>
   );
 }
 
 const styles = StyleSheet.create({
-  columns: { gap: spacing.lg },
-  columnsWide: { flexDirection: 'row', alignItems: 'flex-start' },
-  column: { gap: spacing.lg, minWidth: 0 },
-  columnWide: { flex: 1 },
   switchRow: { flexDirection: 'row', alignItems: 'center', gap: spacing.md },
   grow: { flex: 1 },
 });

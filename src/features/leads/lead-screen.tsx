@@ -7,12 +7,12 @@ import { useAddMeasurementMutation, useLeadQuery, useMarkSheathMutation, useUpda
 import { useMeQuery } from '@/api/queries/session';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
+import { Column, Columns } from '@/components/columns';
 import { Confirm } from '@/components/confirm';
 import { QueryState } from '@/components/query-state';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
 import { formatDate, localToday } from '@/lib/dates';
-import { useIsWide } from '@/lib/use-is-wide';
 import { formatLength } from '@/lib/units';
 import { newClientKey } from '@/lib/uuid';
 import { plantDisplayName } from '@/shared/plant-name';
@@ -41,7 +41,6 @@ export function LeadScreen() {
 }
 
 function LeadBody({ lead }: { lead: LeadDetail }) {
-  const wide = useIsWide();
   const me = useMeQuery();
   const { collectionId, canWrite, isOwner, units } = useCollectionSettings();
   const add = useAddMeasurementMutation(collectionId, lead.id);
@@ -101,16 +100,16 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
           )
         ) : null}
       </Card>
-      <View style={[styles.columns, wide && styles.columnsWide]}>
-        <View style={[styles.column, wide && styles.columnWide]}>
+      <Columns>
+        <Column>
           {lead.measurements.length > 0 ? <GrowthCard lead={lead} collectionId={collectionId} units={units} /> : null}
           {canWrite ? (
             <Card title="Add a measurement" testID="add-measurement">
               <MeasurementForm key={last?.id ?? 'first'} last={last} units={units} onSave={(input) => add.mutateAsync({ ...input, clientKey: newClientKey() })} />
             </Card>
           ) : null}
-        </View>
-        <View style={[styles.column, wide && styles.columnWide]}>
+        </Column>
+        <Column>
           <Card title="Measurements">
             <MeasurementTable
               collectionId={collectionId}
@@ -122,8 +121,8 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
           <Card title="Bloom">
             <BloomForm key={lead.bloom?.version ?? 0} collectionId={collectionId} leadId={lead.id} bloom={lead.bloom} canWrite={canWrite} />
           </Card>
-        </View>
-      </View>
+        </Column>
+      </Columns>
     </Screen>
   );
 }
@@ -160,8 +159,4 @@ function GrowthCard({ lead, collectionId, units }: { lead: LeadDetail; collectio
 const styles = StyleSheet.create({
   group: { gap: spacing.xs },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },
-  columns: { gap: spacing.lg },
-  columnsWide: { flexDirection: 'row', alignItems: 'flex-start' },
-  column: { gap: spacing.lg, minWidth: 0 },
-  columnWide: { flex: 1 },
 });

@@ -4,12 +4,12 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { useAreasQuery, useDeletePlantMutation, usePlantQuery } from '@/api/queries/records';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
+import { Column, Columns } from '@/components/columns';
 import { Confirm } from '@/components/confirm';
 import { QueryState } from '@/components/query-state';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
 import { formatDate } from '@/lib/dates';
-import { useIsWide } from '@/lib/use-is-wide';
 import { plantDisplayName } from '@/shared/plant-name';
 import type { LeadSummary, PlantDetail } from '@/shared/schemas/records';
 import { colors, radius, spacing } from '@/theme';
@@ -43,7 +43,6 @@ function groupBySeason(leads: LeadSummary[]): Array<[number, LeadSummary[]]> {
 
 function PlantBody({ plant }: { plant: PlantDetail }) {
   const router = useRouter();
-  const wide = useIsWide();
   const { collectionId, canWrite, isOwner, units, seasonStartMonth } = useCollectionSettings();
   const areas = useAreasQuery(collectionId);
   const remove = useDeletePlantMutation(collectionId);
@@ -61,8 +60,8 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
       <Link href="/plants">
         <Text color="accent">‹ All plants</Text>
       </Link>
-      <View style={[styles.columns, wide && styles.columnsWide]}>
-        <View style={[styles.column, wide && styles.columnWide]}>
+      <Columns>
+        <Column>
           <Card>
             {facts.map((fact) => (
               <Text key={fact as string}>{fact}</Text>
@@ -108,22 +107,18 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
               </View>
             ))}
           </Card>
-        </View>
-        <View style={[styles.column, wide && styles.columnWide]}>
+        </Column>
+        <Column>
           <PlantTrend collectionId={collectionId} plantId={plant.id} units={units} />
           <Lineage plant={plant} />
           <CareSection collectionId={collectionId} plantId={plant.id} entries={plant.care} areas={areas.data ?? []} canWrite={canWrite} />
-        </View>
-      </View>
+        </Column>
+      </Columns>
     </Screen>
   );
 }
 
 const styles = StyleSheet.create({
-  columns: { gap: spacing.lg },
-  columnsWide: { flexDirection: 'row', alignItems: 'flex-start' },
-  column: { gap: spacing.lg, minWidth: 0 },
-  columnWide: { flex: 1 },
   actions: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },
   season: { gap: spacing.xs },
   leadRow: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },
