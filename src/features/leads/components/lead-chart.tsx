@@ -1,5 +1,4 @@
-import { WithSkiaWeb } from '@shopify/react-native-skia/lib/module/web';
-import { useState } from 'react';
+import { lazy, Suspense, useState } from 'react';
 import { ActivityIndicator, ScrollView, StyleSheet, View } from 'react-native';
 import { Button } from '@/components/button';
 import { Text } from '@/components/text';
@@ -7,11 +6,12 @@ import { formatDate } from '@/lib/dates';
 import { colors, spacing } from '@/theme';
 import type { LeadChartData } from './chart-data';
 
-const SKIA_OPTIONS = { locateFile: (file: string) => `/${file}` };
+const SkiaChartHost = lazy(() => import('./skia-chart-host'));
 
 /**
  * The lead's chart with its text alternative: a one-sentence summary always, and the same
- * numbers as a table on request. The chart engine loads only when this is on screen.
+ * numbers as a table on request. The chart engine (CanvasKit, Skia, victory-native) loads
+ * only when this is on screen, in two lazy steps: the host, then the canvas.
  */
 export function LeadChart({ data, summary }: { data: LeadChartData; summary: string }) {
   const [asTable, setAsTable] = useState(false);
@@ -25,12 +25,9 @@ export function LeadChart({ data, summary }: { data: LeadChartData; summary: str
         <ChartTable data={data} />
       ) : (
         <View accessible accessibilityRole="image" aria-label={`Chart: ${summary}`}>
-          <WithSkiaWeb
-            opts={SKIA_OPTIONS}
-            getComponent={() => import('./lead-chart-canvas')}
-            fallback={<ActivityIndicator color={colors.accent} style={styles.loading} accessibilityLabel="Drawing the chart" />}
-            componentProps={{ data }}
-          />
+          <Suspense fallback={<ActivityIndicator color={colors.accent} style={styles.loading} accessibilityLabel="Drawing the chart" />}>
+            <SkiaChartHost data={data} />
+          </Suspense>
         </View>
       )}
       <Button label={asTable ? 'Show as chart' : 'Show as table'} tone="quiet" onPress={() => setAsTable((v) => !v)} testID="chart-toggle" style={styles.toggle} />
