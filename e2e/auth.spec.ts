@@ -97,6 +97,12 @@ test('the tabs sit at the bottom on a phone and in a side rail on a wide screen'
   const tab = await page.getByTestId('tab-plants').boundingBox();
   const viewport = page.viewportSize()!;
   expect(tab).not.toBeNull();
+  // A long screen scrolls inside itself: the page never grows past the window.
+  for (const name of ['today', 'collection']) {
+    await page.getByTestId(`tab-${name}`).click();
+    await expect(page.getByTestId(`${name}-screen`)).toBeVisible();
+    expect(await page.evaluate(() => document.scrollingElement!.scrollHeight)).toBeLessThanOrEqual(viewport.height);
+  }
   if (info.project.name === 'phone') {
     expect(tab!.y).toBeGreaterThan(viewport.height - 100);
   } else {

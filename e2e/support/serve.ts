@@ -5,6 +5,7 @@ import { createDatabase } from '../../db/client';
 import { runMigrations } from '../../db/migrate';
 import { seedDemo } from '../../db/seed';
 import { createApp } from '../../server/app';
+import { createRateLimits } from '../../server/middleware/rate-limit';
 import { E2E_DATABASE, E2E_PORT } from './constants';
 
 /**
@@ -29,6 +30,9 @@ async function main() {
     db: database.db,
     logger: pino({ level: 'warn' }),
     webRoot: path.join(__dirname, '..', '..', 'dist'),
+    // The suite signs in dozens of times from one address; the limits themselves are
+    // tested against the API (tests/api/auth.test.ts).
+    rateLimits: createRateLimits({ perIp: 10_000, perAccount: 10_000, windowSeconds: 60 }),
   });
   const server = app.listen(E2E_PORT, '127.0.0.1');
   const stop = () => server.close(() => database.close().then(() => process.exit(0)));

@@ -25,6 +25,8 @@ export interface PlantFilters {
   leadStatus?: string;
   sort?: 'tag' | 'name' | 'updated' | 'acquired';
   page?: number;
+  /** At most 100 (the server's limit). */
+  pageSize?: number;
 }
 
 export const recordKeys = {

@@ -28,7 +28,7 @@ export function AppTabs() {
     <View style={styles.frame}>
       <Tabs style={StyleSheet.flatten([styles.root, wide && styles.rootWide])}>
         <View style={styles.slot}>
-          <TabSlot />
+          <TabSlot style={styles.slot} />
         </View>
         <TabList
           accessibilityRole="tablist"
@@ -83,7 +83,9 @@ const TabButton = forwardRef<View, TabTriggerSlotProps & { label: string; wide: 
 const styles = StyleSheet.create({
   root: { flex: 1, flexDirection: 'column', backgroundColor: colors.background },
   rootWide: { flexDirection: 'row-reverse' },
-  slot: { flex: 1 },
+  // minHeight 0 lets the slot shrink to the window, so a tall screen scrolls inside itself
+  // instead of stretching the page (and taking the tab bar with it).
+  slot: { flex: 1, minHeight: 0 },
   bar: {
     flexDirection: 'row',
     backgroundColor: colors.nav,

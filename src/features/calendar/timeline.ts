@@ -1,0 +1,103 @@
+import { colors } from '@/theme';
+
+/*
+ * Date arithmetic for the bloom timeline. Calendar dates are 'YYYY-MM-DD' with no time of
+ * day, so everything runs in UTC days to stay clear of daylight-saving shifts.
+ */
+
+const DAY_MS = 86_400_000;
+const DATE_PATTERN = /^(\d{4})-(\d{2})-(\d{2})$/;
+
+/** Days in the timeline when the grower has not moved it (the calendar route's own default). */
+export const RANGE_DAYS = 180;
+
+export function dayNumber(date: string): number {
+  const [y, m, d] = date.split('-').map(Number);
+  return Date.UTC(y, m - 1, d) / DAY_MS;
+}
+
+function fromDayNumber(day: number): string {
+  return new Date(day * DAY_MS).toISOString().slice(0, 10);
+}
+
+export function addDays(date: string, days: number): string {
+  return fromDayNumber(dayNumber(date) + days);
+}
+
+/** The same day of the month `months` later, clamped to the month's last day (31 Jan + 1 → 28 Feb). */
+export function addMonths(date: string, months: number): string {
+  const [y, m, d] = date.split('-').map(Number);
+  const first = new Date(Date.UTC(y, m - 1 + months, 1));
+  const last = new Date(Date.UTC(first.getUTCFullYear(), first.getUTCMonth() + 1, 0)).getUTCDate();
+  first.setUTCDate(Math.min(d, last));
+  return first.toISOString().slice(0, 10);
+}
+
+/** True for a real calendar date written as YYYY-MM-DD (so 2027-02-30 is refused). */
+export function isCalendarDate(text: string): boolean {
+  const match = DATE_PATTERN.exec(text);
+  if (!match) return false;
+  const [, y, m, d] = match.map(Number);
+  const date = new Date(Date.UTC(y, m - 1, d));
+  return date.getUTCFullYear() === y && date.getUTCMonth() === m - 1 && date.getUTCDate() === d;
+}
+
+/** Where a date falls on the range, as a percentage of its width, clamped to 0–100. */
+export function positionPercent(date: string, from: string, to: string): number {
+  const span = Math.max(1, dayNumber(to) - dayNumber(from));
+  return Math.min(100, Math.max(0, ((dayNumber(date) - dayNumber(from)) / span) * 100));
+}
+
+/** The first day of each month inside the range, for the axis. */
+export function monthStarts(from: string, to: string): string[] {
+  const [y, m] = from.split('-').map(Number);
+  const starts: string[] = [];
+  for (let i = 0; ; i++) {
+    const start = new Date(Date.UTC(y, m - 1 + i, 1)).toISOString().slice(0, 10);
+    if (start > to) break;
+    if (start >= from) starts.push(start);
+  }
+  return starts;
+}
+
+export function monthLabel(date: string, withYear: boolean): string {
+  const [y, m] = date.split('-').map(Number);
+  return new Date(Date.UTC(y, m - 1, 1)).toLocaleDateString('en-GB', { month: 'short', year: withYear ? 'numeric' : undefined, timeZone: 'UTC' });
+}
+
+/** "6 Dec", or "6 Dec 2027" when the year differs from the reference year. */
+export function shortDate(date: string, referenceYear: number): string {
+  const [y, m, d] = date.split('-').map(Number);
+  return new Date(Date.UTC(y, m - 1, d)).toLocaleDateString('en-GB', {
+    day: 'numeric',
+    month: 'short',
+    year: y === referenceYear ? undefined : 'numeric',
+    timeZone: 'UTC',
+  });
+}
+
+export type ChanceBand = 'likely' | 'possible' | 'unlikely';
+
+/**
+ * Bands for the chance that a lead blooms at all. The cut-offs are our own reading of the
+ * engine's chance (common practice for "likely" is two in three or better); the percentage is
+ * always printed beside the word, so the band only eases scanning.
+ */
+export const CHANCE_BANDS: ReadonlyArray<{ band: ChanceBand; min: number; label: string; legend: string; color: string }> = [
+  { band: 'likely', min: 0.7, label: 'likely', legend: 'Likely to bloom (70% or more)', color: colors.accent },
+  { band: 'possible', min: 0.4, label: 'possible', legend: 'Possible (40–69%)', color: colors.warning },
+  { band: 'unlikely', min: 0, label: 'unlikely', legend: 'Unlikely (under 40%)', color: colors.textSubtle },
+];
+
+export function chanceBand(chance: number) {
+  return CHANCE_BANDS.find((b) => chance >= b.min) ?? CHANCE_BANDS[CHANCE_BANDS.length - 1];
+}
+
+export function percent(share: number): string {
+  return `${Math.round(share * 100)}%`;
+}
+
+/** "likely (78%)": the band in words with its figure, so colour is never the only signal. */
+export function chanceText(chance: number): string {
+  return `${chanceBand(chance).label} (${percent(chance)})`;
+}
