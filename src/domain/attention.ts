@@ -2,12 +2,15 @@
  * Today's attention list for a collection: leads due for measuring, stalled or aborted leads,
  * sheaths to check, and bloom windows opening soon — each with its reason and a link target.
  */
-import { forecastBloom, type BloomHistory } from './bloom-window';
+import type { BloomHistory } from './bloom-window';
 import { addDays, daysBetween, isIsoDate } from './dates';
-import { leadFlags, type LeadFlag } from './flags';
+import type { LeadFlag } from './flags';
 import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
-import { fitLeadCurve, type LeadShape } from './growth-curve';
+import type { LeadShape } from './growth-curve';
+import { earlierLeadShapes, forecastLead } from './lead-forecast';
 import type { IsoDate, Measurement, Plant } from './types';
+
+export { earlierLeadShapes, SHAPE_SEASONS } from './lead-forecast';
 
 /** A growing lead is due for measuring after this many days — common practice (a round every two weeks). */
 export const MEASURE_EVERY_DAYS = 14;
@@ -17,9 +20,6 @@ export const SHEATH_CHECK_DAYS = 7;
 export const BLOOM_LOOKAHEAD_DAYS = 14;
 /** Bloom windows less likely than this are left off the list (chosen). */
 export const BLOOM_MIN_CHANCE = 0.2;
-/** Earlier leads fitted for a plant's shape (the most recent seasons), to bound the work. */
-export const SHAPE_SEASONS = 3;
-
 export type AttentionKind = 'aborted' | 'stalled' | 'sheath' | 'bloom' | 'measure';
 
 export interface AttentionItem {
@@ -58,24 +58,11 @@ function latestMeasurement(h: BloomHistory, today: IsoDate): Measurement | null 
 }
 
 /**
- * Shapes (midpoint, scale, mature height) of a plant's finished earlier leads that support a free
- * logistic fit, from the `SHAPE_SEASONS` most recent seasons before `beforeSeason`.
- */
-export function earlierLeadShapes(leads: readonly BloomHistory[], genus: GenusDefaults, beforeSeason: number, today: IsoDate): LeadShape[] {
-  const seasons = [...new Set(leads.map((h) => h.lead.season).filter((s) => s < beforeSeason))].sort((a, b) => b - a).slice(0, SHAPE_SEASONS);
-  const shapes: LeadShape[] = [];
-  for (const h of leads) {
-    if (!seasons.includes(h.lead.season) || h.lead.status === 'growing') continue;
-    const fit = fitLeadCurve(h.measurements, h.lead, { genusDefaults: genus, today });
-    if (fit.method === 'free') shapes.push({ midpointDays: fit.midpointDays, scaleDays: fit.scaleDays, matureHeightMm: fit.matureHeightMm });
-  }
-  return shapes;
-}
-
-/**
  * The attention list for `today`, most urgent first (aborted, stalled, sheaths, bloom windows,
- * measuring), then by plant and lead id. Only each plant's current leads are considered: those of
- * its latest season, and any lead still growing. Items:
+ * measuring), then by plant and lead id. Only each plant's current leads are considered: its own
+ * leads (`plantId` the plant's; a division's inherited parent leads only inform the forecasts) of
+ * its latest season, and any own lead still growing. Each lead goes through `forecastLead`, so the
+ * flags, chance and flower count are those of the lead page. Items:
  * - measure: a growing lead with no measurement in `measureEveryDays` (counted from first seen
  *   when never measured);
  * - aborted / stalled: `leadFlags` for the lead;
@@ -93,7 +80,9 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
 
   for (const { plant, leads, priorShapes } of plants) {
     const genus = (options.genusDefaults ?? genusDefaultsFor)(plant.genus);
-    const visible = leads.filter((h) => isIsoDate(h.lead.firstSeen) && h.lead.firstSeen <= today);
+    // Only the plant's own leads are its current leads: a division's history also holds its
+    // parent's leads (another plantId), which inform the forecasts but are not reported here.
+    const visible = leads.filter((h) => h.lead.plantId === plant.id && isIsoDate(h.lead.firstSeen) && h.lead.firstSeen <= today);
     if (visible.length === 0) continue;
     const latestSeason = Math.max(...visible.map((h) => h.lead.season));
     const shapesBySeason = new Map<number, readonly LeadShape[]>();
@@ -128,8 +117,10 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
         }
       }
 
-      const shapes = shapesFor(lead.season);
-      for (const flag of leadFlags({ current: h, plantLeads: leads, plant, genusDefaults: genus, priorShapes: shapes, today })) {
+      // The same per-lead forecast as the lead page (fit, flags, bloom window from one call).
+      const forecast = forecastLead({ plant, leads, leadId: lead.id, today, genusDefaults: genus, priorShapes: shapesFor(lead.season) });
+      if (!forecast) continue;
+      for (const flag of forecast.flags) {
         items.push({ kind: flag.kind, target, date: flag.stalledSince, reason: flag.reason, flag });
       }
 
@@ -146,10 +137,8 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
         }
       }
 
+      const f = forecast.bloom;
       if (lead.status !== 'dried_off' && lead.status !== 'rotted' && !h.bloom?.firstOpen) {
-        const fit = lead.status === 'growing' ? fitLeadCurve(h.measurements, lead, { genusDefaults: genus, priorShapes: shapes, today }) : null;
-        const history = leads.filter((x) => x.lead.season !== lead.season);
-        const f = forecastBloom({ current: h, history, genusDefaults: genus, fit, today });
         if (f.firstOpen && f.firstOpen.p10 >= today && f.firstOpen.p10 <= horizon && f.chance >= BLOOM_MIN_CHANCE) {
           items.push({
             kind: 'bloom',

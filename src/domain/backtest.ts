@@ -53,6 +53,8 @@ function shiftYears(date: IsoDate, years: number): IsoDate {
  * seasons only (the lead's own bloom record hidden), and compared with the actual date. The naive
  * forecast takes the plant's latest earlier first-open date and moves it to this season (same
  * month and day). Errors are absolute days. `genusDefaults` overrides the lookup by abbreviation.
+ * Only leads whose `plantId` is the plant's own are scored (a division's inherited parent leads
+ * count as history only, so a parent's season is never scored twice).
  */
 export function backtestBloomForecasts(
   plants: readonly BacktestPlant[],
@@ -62,6 +64,9 @@ export function backtestBloomForecasts(
   for (const { plant, leads } of plants) {
     const genus = (genusDefaults ?? genusDefaultsFor)(plant.genus);
     for (const target of leads) {
+      // Seasons are scored only on the plant's own leads: a division's inherited parent leads
+      // (another plantId) inform its forecasts but are the parent's seasons, scored there.
+      if (target.lead.plantId !== plant.id) continue;
       const actual = target.bloom?.firstOpen;
       if (!actual || !isIsoDate(actual)) continue;
       const matured = maturedOn(target, genus);

@@ -17,10 +17,11 @@ import {
   sumDegreeDays,
   type DegreeDayOptions,
 } from './degree-days';
-import { normalQuantile } from './distributions';
+import { normalCdf, normalQuantile } from './distributions';
+import type { LeadFlag } from './flags';
 import type { GenusDefaults, StageInterval } from './genus-defaults';
-import type { LeadCurveFit } from './growth-curve';
-import { linearFit, type LeadHistory } from './prior-years';
+import { fitLeadCurve, MIN_POINTS_FREE_FIT, type LeadCurveFit } from './growth-curve';
+import { heightAtAge, linearFit, type LeadHistory } from './prior-years';
 import type { BloomRecord, IsoDate, Measurement, TemperatureReading } from './types';
 
 /** Pseudo-seasons of genus weight in the shrinkage n/(n + k) (chosen: equal weight at 3 seasons). */
@@ -91,15 +92,54 @@ function tallestOf(ms: readonly Measurement[]): number | null {
   return best;
 }
 
-function maturedOnSorted(ms: readonly Measurement[], status: LeadHistory['lead']['status'], genus: GenusDefaults): IsoDate | null {
+function maturedOnSorted(ms: readonly Measurement[], lead: LeadHistory['lead'], genus: GenusDefaults): IsoDate | null {
   if (genus.bloomHabit !== 'no_sheath') {
     const sheathed = ms.find((m) => m.sheath !== 'none');
     if (sheathed) return sheathed.date;
   }
-  if (status === 'growing') return null;
+  if (lead.status === 'growing') return null;
   const tallest = tallestOf(ms);
   if (tallest === null || tallest <= 0) return null;
-  return ms.find((m) => m.heightMm >= MATURE_HEIGHT_SHARE * tallest)?.date ?? null;
+  const byHeight = ms.find((m) => m.heightMm >= MATURE_HEIGHT_SHARE * tallest)?.date ?? null;
+  // A bulb keeps adding a few millimetres for months after it has hardened, so "95% of the
+  // tallest" read off the measurements can land on a look taken long after growth stopped (the
+  // day the buds were seen, say). With a free growth fit, the day its curve reaches 95% of the
+  // mature height (the curve's own maturity, MATURITY_FRACTION) decides: the first look on or
+  // after it.
+  if (ms.length >= MIN_POINTS_FREE_FIT) {
+    const last = ms[ms.length - 1].date;
+    const fit = fitLeadCurve(ms, lead, { genusDefaults: genus, today: last });
+    if (fit.method === 'free') {
+      const onFit = ms.find((m) => m.date >= fit.maturityDate)?.date ?? null;
+      if (onFit && (byHeight === null || onFit < byHeight)) return onFit;
+    }
+  }
+  return byHeight;
+}
+
+/**
+ * Maturity dates of finished earlier leads, remembered per measurement list (a growth fit each):
+ * the same history is read by every forecast of the plant. Keyed on the list's identity, so a
+ * caller that builds new lists gets fresh answers; the value is a pure function of the key.
+ */
+const maturityMemo = new WeakMap<GenusDefaults, WeakMap<readonly Measurement[], Map<string, IsoDate | null>>>();
+
+function maturedOnCached(h: LeadHistory, ms: readonly Measurement[], genus: GenusDefaults): IsoDate | null {
+  let byList = maturityMemo.get(genus);
+  if (!byList) {
+    byList = new WeakMap();
+    maturityMemo.set(genus, byList);
+  }
+  let byKey = byList.get(h.measurements);
+  if (!byKey) {
+    byKey = new Map();
+    byList.set(h.measurements, byKey);
+  }
+  const key = `${h.lead.id}|${h.lead.firstSeen}|${h.lead.status}|${h.measurements.length}`;
+  if (byKey.has(key)) return byKey.get(key)!;
+  const v = maturedOnSorted(ms, h.lead, genus);
+  byKey.set(key, v);
+  return v;
 }
 
 /**
@@ -109,7 +149,7 @@ function maturedOnSorted(ms: readonly Measurement[], status: LeadHistory['lead']
  * Measurements after `today` are ignored.
  */
 export function maturedOn(h: LeadHistory, genus: GenusDefaults, today?: IsoDate): IsoDate | null {
-  return maturedOnSorted(sortedMeasurements(h, today), h.lead.status, genus);
+  return maturedOnSorted(sortedMeasurements(h, today), h.lead, genus);
 }
 
 interface LogNormal {
@@ -118,17 +158,46 @@ interface LogNormal {
 }
 
 /**
+ * Limited translation of the shrinkage (Efron & Morris 1971, "Limiting the risk of Bayes and
+ * empirical Bayes estimators — Part I", JASA 66:807–815; Part II 1972, JASA 67:130–139): the
+ * shrunk log-mean is moved from the plant's own log-mean toward the genus by at most this many
+ * standard errors of the plant's mean. Efron & Morris's worked choice is one standard error.
+ * A plant whose own seasons agree with each other but sit far from the genus default (a winter
+ * bloomer of a genus that mostly flowers in autumn) keeps its own timing instead of being pulled
+ * most of the way to the default; within that band the weight is plain n/(n + k).
+ */
+export const SHRINKAGE_MAX_SHIFT_SE = 1;
+
+/**
  * Shrinks the plant's own log-intervals toward a genus log-normal: μ = w·mean + (1 − w)·μ_g with
  * w = n/(n + k); σ² = w·s² + (1 − w)·σ_g² (plant variance only with n ≥ 2), inflated by
- * (1 + 1/(n + k)) for the uncertainty of μ. Non-positive intervals are dropped.
+ * (1 + 1/(n + k)) for the uncertainty of μ. Non-positive intervals are dropped. With
+ * `maxShiftSe`, the move from the plant's mean toward the genus is limited to that many standard
+ * errors √(σ²/n) of the plant's mean (limited translation, SHRINKAGE_MAX_SHIFT_SE); `weight` is
+ * then the effective weight of the plant's mean.
  */
-export function shrinkLogInterval(plantDays: readonly number[], genus: LogNormal, k = BLOOM_SHRINKAGE_K): LogNormal & { n: number; weight: number } {
+export function shrinkLogInterval(
+  plantDays: readonly number[],
+  genus: LogNormal,
+  k = BLOOM_SHRINKAGE_K,
+  options: { maxShiftSe?: number } = {},
+): LogNormal & { n: number; weight: number } {
   const logs = plantDays.filter((d) => Number.isFinite(d) && d > 0).map((d) => Math.log(d));
   const n = logs.length;
-  const w = n / (n + k);
-  const mu = n > 0 ? w * mean(logs) + (1 - w) * genus.mu : genus.mu;
+  let w = n / (n + k);
+  const plantMean = n > 0 ? mean(logs) : genus.mu;
+  let mu = n > 0 ? w * plantMean + (1 - w) * genus.mu : genus.mu;
   const varPlant = n >= 2 ? sampleVariance(logs) : genus.sigma ** 2;
   const v = w * varPlant + (1 - w) * genus.sigma ** 2;
+  if (n > 0 && options.maxShiftSe !== undefined && Number.isFinite(options.maxShiftSe) && options.maxShiftSe >= 0) {
+    const maxShift = options.maxShiftSe * Math.sqrt(v / n);
+    const shift = mu - plantMean;
+    if (Math.abs(shift) > maxShift) {
+      mu = plantMean + Math.sign(shift) * maxShift;
+      const gap = plantMean - genus.mu;
+      w = gap !== 0 ? (mu - genus.mu) / gap : w;
+    }
+  }
   return { mu, sigma: Math.sqrt(v * (1 + 1 / (n + k))), n, weight: w };
 }
 
@@ -181,7 +250,7 @@ export function pastIntervals(
   };
   return history.map((h) => {
     const ms = sortedMeasurements(h);
-    const mature = maturedOnSorted(ms, h.lead.status, genus);
+    const mature = maturedOnCached(h, ms, genus);
     const b = h.bloom;
     const buds = b?.budsSeen && isIsoDate(b.budsSeen) ? b.budsSeen : null;
     const open = b?.firstOpen && isIsoDate(b.firstOpen) ? b.firstOpen : null;
@@ -216,18 +285,75 @@ export interface BloomForecastInput {
   readings?: readonly TemperatureReading[];
   /** Degree-day settings; default base ORCHID_BASE_TEMP_C with the 'clamped' method and no cap. */
   degreeDays?: DegreeDayOptions;
+  /**
+   * The lead's stall/abort flags on `today` (`leadFlags`). An 'aborted' flag makes the lead
+   * 'lost' (chance 0, the flag's reason given) unless it already shows buds or flowers.
+   */
+  flags?: readonly LeadFlag[];
 }
 
-function windowFrom(start: IsoDate, ln: LogNormal, extraSdDays = 0): DateWindow {
+/**
+ * Offset (days from the start) at standard-normal level z of the log-normal interval, widened on
+ * either side of the median by an independent normal spread `extraSdDays` (root sum of squares,
+ * as for the 10th/90th percentiles). Increasing in z.
+ */
+function offsetAtZ(ln: LogNormal, extraSdDays: number, z: number): number {
   const med = Math.exp(ln.mu);
-  const lo = Math.exp(ln.mu + Z10 * ln.sigma);
-  const hi = Math.exp(ln.mu + Z90 * ln.sigma);
-  const widen = (d: number) => Math.sqrt(d * d + (Z90 * extraSdDays) ** 2);
-  return {
-    p10: addDays(start, Math.round(med - widen(med - lo))),
-    p50: addDays(start, Math.round(med)),
-    p90: addDays(start, Math.round(med + widen(hi - med))),
-  };
+  const d = Math.abs(Math.exp(ln.mu + z * ln.sigma) - med);
+  const w = Math.sqrt(d * d + (z * extraSdDays) ** 2);
+  return z < 0 ? med - w : med + w;
+}
+
+/** Below this probability of having opened already, the forecast is left unconditioned (numerical floor). */
+const CONDITION_MIN_PROBABILITY = 1e-4;
+/** Quantile levels are kept this far inside (0, 1) when conditioning (numerical floor). */
+const QUANTILE_EPS = 1e-9;
+/** Percentile levels of the window. */
+const WINDOW_LEVELS = { p10: 0.1, p50: 0.5, p90: 0.9 } as const;
+
+/**
+ * z of the conditional quantile: given that the interval has not ended by a point where its
+ * cumulative probability is `pBefore`, the q-quantile of the rest is F⁻¹(pBefore + q·(1 − pBefore))
+ * (a left-truncated distribution). With pBefore under CONDITION_MIN_PROBABILITY, z of q itself.
+ */
+function conditionedZ(q: number, pBefore: number, zOfQ: number): number {
+  if (pBefore < CONDITION_MIN_PROBABILITY) return zOfQ;
+  const u = Math.min(1 - QUANTILE_EPS, Math.max(QUANTILE_EPS, pBefore + q * (1 - pBefore)));
+  return normalQuantile(u);
+}
+
+/** z levels of the window's 10th, 50th and 90th percentiles, as they are without conditioning. */
+const Z_OF = { p10: Z10, p50: 0, p90: Z90 } as const;
+
+/**
+ * The window as offsets from `start`. With `elapsedDays` (days from the start to today, the
+ * first flower not open yet), the distribution is conditioned on the interval being longer than
+ * that; `pBefore` is the probability it would have been over already.
+ */
+function windowFrom(start: IsoDate, ln: LogNormal, extraSdDays = 0, elapsedDays?: number): { window: DateWindow; pBefore: number } {
+  let pBefore = 0;
+  if (elapsedDays !== undefined && elapsedDays > 0 && elapsedDays > offsetAtZ(ln, extraSdDays, -8)) {
+    // Level z at which the offset equals the elapsed days (bisection; offsetAtZ increases in z).
+    let lo = -8;
+    let hi = 8;
+    if (elapsedDays >= offsetAtZ(ln, extraSdDays, hi)) lo = hi;
+    else {
+      for (let i = 0; i < 60; i++) {
+        const mid = (lo + hi) / 2;
+        if (offsetAtZ(ln, extraSdDays, mid) < elapsedDays) lo = mid;
+        else hi = mid;
+      }
+    }
+    pBefore = normalCdf(lo);
+  }
+  const at = (k: keyof typeof Z_OF) => addDays(start, Math.round(offsetAtZ(ln, extraSdDays, conditionedZ(WINDOW_LEVELS[k], pBefore, Z_OF[k]))));
+  return { window: { p10: at('p10'), p50: at('p50'), p90: at('p90') }, pBefore };
+}
+
+/** No percentile date of a lead not open yet lies before today. */
+function notBefore(w: DateWindow, today: IsoDate): DateWindow {
+  const f = (d: IsoDate) => (d < today ? today : d);
+  return { p10: f(w.p10), p50: f(w.p50), p90: f(w.p90) };
 }
 
 /**
@@ -263,9 +389,17 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   const faded = bloom?.lastFaded && isIsoDate(bloom.lastFaded) && bloom.lastFaded <= today ? bloom.lastFaded : null;
   const currentMs = sortedMeasurements(current, today);
   const currentTallest = tallestOf(currentMs);
-  const mature = maturedOnSorted(currentMs, lead.status, genus);
-  const lost = lead.status === 'dried_off' || lead.status === 'rotted' || lead.status === 'removed';
+  const mature = maturedOnSorted(currentMs, lead, genus);
+  const abortFlag = !open && !buds ? input.flags?.find((f) => f.kind === 'aborted' && f.leadId === lead.id) : undefined;
+  const lost = lead.status === 'dried_off' || lead.status === 'rotted' || lead.status === 'removed' || abortFlag !== undefined;
   const stage: BloomStage = lost && !open ? 'lost' : faded ? 'faded' : open ? 'in_flower' : buds ? 'buds' : mature ? 'mature' : 'growing';
+
+  // Size against last season, like with like: the predicted mature height (growth fit) or, for a
+  // finished lead, its tallest height against last season's final height; for a young lead
+  // without a usable fit, its height against last season's lead at the same age (the size ratio
+  // of `compareWithPriorYears`). The expected mature size (for the flower count) is then last
+  // season's final height scaled by that ratio.
+  const { sizeVsLast, expectedMatureSize } = sizeAgainstLastSeason(current, currentMs, currentTallest, mature, input.fit ?? null, history, past);
 
   // Intervals.
   const matureToOpenDays = past.map((p) => p.matureToOpenDays).filter((d): d is number => d !== null);
@@ -278,6 +412,14 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
 
   let mode: 'days' | 'degree-days' = 'days';
   let firstOpen: DateWindow | null = null;
+  const elapsedNote = (pBefore: number, start: IsoDate) => {
+    if (pBefore >= CONDITION_MIN_PROBABILITY) {
+      notes.push(
+        `not open by ${today} (${daysBetween(start, today)} days after ${fromBuds ? 'buds were seen' : 'maturity'}): window conditioned on opening after today ` +
+          `(${Math.round(pBefore * 100)}% of such intervals would have been over by now)`,
+      );
+    }
+  };
   let seasons = 0;
   let weight = 0;
   const dailyNormal = input.readings && input.readings.length ? recentDailyDegreeDays(input.readings, today, ddOptions) : null;
@@ -286,7 +428,12 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   if (open) {
     firstOpen = { p10: open, p50: open, p90: open };
   } else if (stage !== 'lost') {
-    const start = fromBuds ? buds : (mature ?? input.fit?.maturityDate ?? null);
+    let start = fromBuds ? buds : (mature ?? input.fit?.maturityDate ?? null);
+    if (start && !fromBuds && !mature && start < today) {
+      // Still not mature on today: the maturity date, conditioned on that, is today at the earliest.
+      notes.push(`past its predicted maturity date ${start} and not mature yet: counted from today`);
+      start = today;
+    }
     if (!start) {
       notes.push('no maturity date yet: bloom window needs the lead to be measured');
     } else if (useDD && input.readings) {
@@ -294,21 +441,36 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
       const ddPerDay = meanDailyDegreeDays(input.readings, ddOptions) ?? dailyNormal!;
       const g = fromBuds ? genusB2O : genusM2O;
       const genusDD = { mu: g.mu + Math.log(ddPerDay), sigma: g.sigma };
-      const sh = shrinkLogInterval(fromBuds ? b2oDD : m2oDD, genusDD);
+      const sh = shrinkLogInterval(fromBuds ? b2oDD : m2oDD, genusDD, BLOOM_SHRINKAGE_K, { maxShiftSe: SHRINKAGE_MAX_SHIFT_SE });
       seasons = sh.n;
       weight = sh.weight;
       const target = (z: number) => Math.exp(sh.mu + z * sh.sigma);
-      const at = (z: number) => dateReachingDegreeDays(input.readings!, start, target(z), today, ddOptions) ?? addDays(start, Math.round(target(z) / ddPerDay));
-      firstOpen = { p10: at(Z10), p50: at(0), p90: at(Z90) };
+      // Not open yet: condition on the degree-days still to come (left truncation at those so far).
+      let pBefore = 0;
+      if (start < today) {
+        const so = sumDegreeDays(input.readings, start, today, ddOptions);
+        if (so.degreeDays > 0) pBefore = normalCdf((Math.log(so.degreeDays) - sh.mu) / sh.sigma);
+      }
+      const at = (k: keyof typeof Z_OF) => {
+        const z = conditionedZ(WINDOW_LEVELS[k], pBefore, Z_OF[k]);
+        return dateReachingDegreeDays(input.readings!, start, target(z), today, ddOptions) ?? addDays(start, Math.round(target(z) / ddPerDay));
+      };
+      firstOpen = { p10: at('p10'), p50: at('p50'), p90: at('p90') };
+      elapsedNote(pBefore, start);
       notes.push(`intervals in degree-days above ${ddOptions.baseTemp}° (${ddOptions.method ?? DEFAULT_DEGREE_DAY_METHOD} averaging)`);
     } else {
-      const sh = shrinkLogInterval(fromBuds ? budsToOpenDays : matureToOpenDays, fromBuds ? genusB2O : genusM2O);
+      const sh = shrinkLogInterval(fromBuds ? budsToOpenDays : matureToOpenDays, fromBuds ? genusB2O : genusM2O, BLOOM_SHRINKAGE_K, {
+        maxShiftSe: SHRINKAGE_MAX_SHIFT_SE,
+      });
       seasons = sh.n;
       weight = sh.weight;
       const predictedMaturity = !fromBuds && !mature;
-      firstOpen = windowFrom(start, sh, predictedMaturity ? MATURITY_DATE_SD_DAYS : 0);
+      const w = windowFrom(start, sh, predictedMaturity ? MATURITY_DATE_SD_DAYS : 0, daysBetween(start, today));
+      firstOpen = w.window;
+      elapsedNote(w.pBefore, start);
       if (predictedMaturity) notes.push(`from the predicted maturity date ${start}`);
     }
+    if (firstOpen) firstOpen = notBefore(firstOpen, today);
   }
 
   // Fading.
@@ -326,7 +488,7 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
     chanceReasons.push(open ? 'in flower' : 'buds visible');
   } else if (lost) {
     chance = 0;
-    chanceReasons.push(`lead ${lead.status.replace('_', ' ')}`);
+    chanceReasons.push(abortFlag && lead.status !== 'dried_off' && lead.status !== 'rotted' && lead.status !== 'removed' ? abortFlag.reason : `lead ${lead.status.replace('_', ' ')}`);
   } else {
     const finished = past.filter((p) => p.tallestMm !== null);
     const bloomedN = finished.filter((p) => p.bloomed).length;
@@ -355,16 +517,14 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
       chance *= CHANCE_FACTORS.noSheathOnMatureLead;
       chanceReasons.push('mature without a sheath');
     }
-    const lastSeason = past.filter((p) => p.tallestMm !== null).sort((a, b) => b.season - a.season)[0];
-    const size = input.fit && input.fit.method !== 'insufficient' ? input.fit.matureHeightMm : currentTallest;
-    if (lastSeason && lastSeason.tallestMm && size !== null && size > 0) {
-      const ratio = size / lastSeason.tallestMm;
+    if (sizeVsLast) {
+      const ratio = sizeVsLast.ratio;
       if (ratio < 0.7) {
         chance *= CHANCE_FACTORS.muchSmallerLead;
-        chanceReasons.push(`lead at ${Math.round(ratio * 100)}% of last season's size`);
+        chanceReasons.push(`lead at ${Math.round(ratio * 100)}% of last season's size${sizeVsLast.basisText}`);
       } else if (ratio < 0.9) {
         chance *= CHANCE_FACTORS.smallerLead;
-        chanceReasons.push(`lead at ${Math.round(ratio * 100)}% of last season's size`);
+        chanceReasons.push(`lead at ${Math.round(ratio * 100)}% of last season's size${sizeVsLast.basisText}`);
       }
     }
     chance = Math.min(CHANCE_BOUNDS[1], Math.max(CHANCE_BOUNDS[0], chance));
@@ -374,7 +534,7 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   const withFlowers = past.filter((p) => p.flowerCount !== null && p.flowerCount > 0);
   const spikes = withFlowers.length ? Math.max(1, Math.round(median(withFlowers.map((p) => p.spikeCount ?? 1)))) : 1;
   const perSpikeRows = withFlowers.map((p) => ({ size: p.tallestMm, fps: p.flowerCount! / Math.max(1, p.spikeCount ?? 1) }));
-  const currentSize = input.fit && input.fit.method !== 'insufficient' ? input.fit.matureHeightMm : currentTallest;
+  const currentSize = expectedMatureSize;
   let perSpike = genus.flowersPerSpike;
   let basis: BloomForecast['expectedFlowers']['basis'] = 'genus';
   const sized = perSpikeRows.filter((r): r is { size: number; fps: number } => r.size !== null);
@@ -401,6 +561,48 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
     history: { seasons, weight },
     notes,
   };
+}
+
+/**
+ * This lead's size against last season's (the largest lead of the latest earlier season, as in
+ * `compareWithPriorYears`), compared like with like, and the mature size expected for it.
+ */
+function sizeAgainstLastSeason(
+  current: BloomHistory,
+  currentMs: readonly Measurement[],
+  currentTallest: number | null,
+  mature: IsoDate | null,
+  fit: LeadCurveFit | null,
+  history: readonly BloomHistory[],
+  past: readonly PastIntervals[],
+): { sizeVsLast: { ratio: number; basisText: string } | null; expectedMatureSize: number | null } {
+  const finished = past.filter((p) => p.tallestMm !== null && p.tallestMm > 0);
+  const latestSeason = finished.length ? Math.max(...finished.map((p) => p.season)) : null;
+  const last = latestSeason === null ? null : finished.filter((p) => p.season === latestSeason).reduce((a, b) => (b.tallestMm! > a.tallestMm! ? b : a));
+  const growing = !mature && current.lead.status === 'growing';
+  const fitted = fit && fit.method !== 'insufficient' && fit.matureHeightMm > 0 ? fit.matureHeightMm : null;
+  if (fitted !== null || !growing) {
+    const size = fitted ?? currentTallest;
+    const basisText = fitted !== null && growing ? ' (predicted mature height)' : '';
+    return {
+      sizeVsLast: last && size !== null && size > 0 ? { ratio: size / last.tallestMm!, basisText } : null,
+      expectedMatureSize: size,
+    };
+  }
+  // A young lead without a usable fit: its latest height against last season's at the same age.
+  const latest = currentMs.length ? currentMs[currentMs.length - 1] : null;
+  const lastHistory = last ? history.find((h) => h.lead.id === last.leadId) : undefined;
+  if (!last || !lastHistory || !latest || !(latest.heightMm > 0)) return { sizeVsLast: null, expectedMatureSize: null };
+  const age = daysBetween(current.lead.firstSeen, latest.date);
+  const same = heightAtAge(lastHistory, age);
+  let ratio: number | null = same !== null && same > 0 ? latest.heightMm / same : null;
+  let basisText = ` at the same age (${age} days)`;
+  if (ratio === null && latest.heightMm > last.tallestMm!) {
+    ratio = latest.heightMm / last.tallestMm!;
+    basisText = ' (already taller than its final height)';
+  }
+  if (ratio === null) return { sizeVsLast: null, expectedMatureSize: null };
+  return { sizeVsLast: { ratio, basisText }, expectedMatureSize: Math.max(latest.heightMm, ratio * last.tallestMm!) };
 }
 
 /** Mean daily degree-days over all readings given (one area). */

@@ -2,13 +2,30 @@
  * One call for everything the lead page shows: growth curve, comparison with earlier seasons,
  * flags and bloom window, computed consistently from the same inputs.
  */
-import { earlierLeadShapes } from './attention';
 import { forecastBloom, type BloomForecast, type BloomHistory } from './bloom-window';
 import { leadFlags, type LeadFlag } from './flags';
 import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
 import { fitLeadCurve, type LeadCurveFit, type LeadShape } from './growth-curve';
 import { compareWithPriorYears, type PriorYearsComparison } from './prior-years';
 import type { IsoDate, Plant, TemperatureReading } from './types';
+
+/** Earlier leads fitted for a plant's shape (the most recent seasons), to bound the work. */
+export const SHAPE_SEASONS = 3;
+
+/**
+ * Shapes (midpoint, scale, mature height) of a plant's finished earlier leads that support a free
+ * logistic fit, from the `SHAPE_SEASONS` most recent seasons before `beforeSeason`.
+ */
+export function earlierLeadShapes(leads: readonly BloomHistory[], genus: GenusDefaults, beforeSeason: number, today: IsoDate): LeadShape[] {
+  const seasons = [...new Set(leads.map((h) => h.lead.season).filter((s) => s < beforeSeason))].sort((a, b) => b - a).slice(0, SHAPE_SEASONS);
+  const shapes: LeadShape[] = [];
+  for (const h of leads) {
+    if (!seasons.includes(h.lead.season) || h.lead.status === 'growing') continue;
+    const fit = fitLeadCurve(h.measurements, h.lead, { genusDefaults: genus, today });
+    if (fit.method === 'free') shapes.push({ midpointDays: fit.midpointDays, scaleDays: fit.scaleDays, matureHeightMm: fit.matureHeightMm });
+  }
+  return shapes;
+}
 
 export interface LeadForecast {
   leadId: string;
@@ -22,7 +39,8 @@ export interface LeadForecast {
  * Forecast for the lead `leadId` of `plant` on `today`. `leads` are all the plant's leads with
  * their measurements and bloom records (the division's parent history included, if the caller
  * wants it counted). Earlier-lead shapes are fitted here unless `priorShapes` is given (pass a
- * cached list to save the work). Returns null when the lead is not among `leads`.
+ * cached list to save the work). Returns null when the lead is not among `leads`. The bloom
+ * forecast takes the lead's flags, so a lead aborted by a stall gets no bloom window.
  */
 export function forecastLead(input: {
   plant: Plant;
@@ -47,6 +65,7 @@ export function forecastLead(input: {
     fit,
     today: input.today,
     readings: input.readings,
+    flags,
   });
   return { leadId: current.lead.id, fit, priorYears, flags, bloom };
 }
