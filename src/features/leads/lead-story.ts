@@ -56,7 +56,11 @@ export function trustSummary(forecast: LeadForecastResponse): string {
   const t = forecast.trust;
   if (t.n === 0 || t.medianAbsErrorDays === null) return 'Not enough history yet to check the forecasts for this plant.';
   const inside = t.shareInside80 === null ? '' : `; ${Math.round(t.shareInside80 * 5)} in 5 fell inside the window`;
-  return `Last seasons' forecasts for this plant were off by a median of ${Math.round(t.medianAbsErrorDays)} days${inside}.`;
+  const memory =
+    t.naive.medianAbsErrorDays === null
+      ? ''
+      : ` Expecting last season's date would have been off by ${Math.round(t.naive.medianAbsErrorDays)} days${t.beatsNaive === false ? ', so trust your memory as much as this forecast' : ''}.`;
+  return `Last seasons' forecasts for this plant were off by a median of ${Math.round(t.medianAbsErrorDays)} days${inside}.${memory}`;
 }
 
 /** Everything the chart draws, in the display unit. `lastSeason` is last season's lead, if known. */

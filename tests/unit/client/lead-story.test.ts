@@ -86,7 +86,14 @@ describe('trustSummary', () => {
   it('reports the median error and the share inside the window in fifths', () => {
     const f = forecast();
     f.trust = { n: 5, medianAbsErrorDays: 6, shareInside80: 0.8, naive: { n: 5, medianAbsErrorDays: 9 }, beatsNaive: true };
-    expect(trustSummary(f)).toBe("Last seasons' forecasts for this plant were off by a median of 6 days; 4 in 5 fell inside the window.");
+    expect(trustSummary(f)).toBe(
+      "Last seasons' forecasts for this plant were off by a median of 6 days; 4 in 5 fell inside the window. Expecting last season's date would have been off by 9 days.",
+    );
+  });
+  it('says plainly when the forecast does no better than memory', () => {
+    const f = forecast();
+    f.trust = { n: 4, medianAbsErrorDays: 20, shareInside80: 1, naive: { n: 4, medianAbsErrorDays: 16 }, beatsNaive: false };
+    expect(trustSummary(f)).toContain('off by 16 days, so trust your memory as much as this forecast.');
   });
 });
 
