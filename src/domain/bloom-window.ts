@@ -43,6 +43,11 @@ export const CHANCE_FACTORS = {
   /** Lead 70–90% of last season's. */
   smallerLead: 0.85,
 } as const;
+/**
+ * Chance that visible buds open: high but not certain, since buds blast after a chill, a dry
+ * spell, a move or ethylene (common practice).
+ */
+export const BUDS_OPEN_CHANCE = 0.95;
 /** Chance is kept within these bounds unless the outcome is already known. */
 export const CHANCE_BOUNDS = [0.02, 0.98] as const;
 /** Spread (1 SD) of a predicted maturity date, days, when the growth fit gives none (chosen). */
@@ -484,8 +489,8 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   const chanceReasons: string[] = [];
   let chance: number;
   if (open || buds) {
-    chance = 1;
-    chanceReasons.push(open ? 'in flower' : 'buds visible');
+    chance = open ? 1 : BUDS_OPEN_CHANCE;
+    chanceReasons.push(open ? 'in flower' : 'buds visible (buds can still blast)');
   } else if (lost) {
     chance = 0;
     chanceReasons.push(abortFlag && lead.status !== 'dried_off' && lead.status !== 'rotted' && lead.status !== 'removed' ? abortFlag.reason : `lead ${lead.status.replace('_', ' ')}`);
