@@ -11,6 +11,7 @@ import type { AppContext } from './context';
 import { errorHandler, HttpError } from './errors';
 import { originCheck } from './middleware/origin';
 import { createRateLimits, type RateLimits } from './middleware/rate-limit';
+import { engineFingerprint, FingerprintMemo } from './services/engine-data';
 import { sessionMiddleware } from './middleware/session';
 import { authRoutes } from './routes/auth';
 import { areaRoutes } from './routes/areas';
@@ -45,6 +46,7 @@ export function createApp(options: AppOptions): Express {
     auth: createAuth(options.db),
     logger,
     rateLimits: options.rateLimits ?? createRateLimits(),
+    fingerprints: new FingerprintMemo((collectionId) => engineFingerprint(options.db, collectionId)),
   };
   const devOrigins = options.devOrigins ?? [];
 
@@ -107,6 +109,12 @@ export function createApp(options: AppOptions): Express {
   api.use(express.json({ limit: JSON_BODY_LIMIT }));
   api.use(originCheck(devOrigins));
   api.use(sessionMiddleware(ctx.auth));
+  // Any write to a collection makes this process forget its fingerprint, so the next
+  // engine answer is checked against the database at once.
+  api.use('/collections/:collectionId', (req, res, next) => {
+    if (req.method !== 'GET' && req.method !== 'HEAD') res.on('finish', () => ctx.fingerprints.forget(req.params.collectionId as string));
+    next();
+  });
   api.use(healthRoutes(ctx));
   api.use(authRoutes(ctx));
   api.use(collectionRoutes(ctx));

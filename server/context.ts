@@ -2,6 +2,7 @@ import type { Logger } from 'pino';
 import type { Database } from '../db/client';
 import type { Auth } from './auth';
 import type { RateLimits } from './middleware/rate-limit';
+import type { FingerprintMemo } from './services/engine-data';
 
 /** Everything a route needs from the outside world; tests build it with their own parts. */
 export interface AppContext {
@@ -9,4 +10,6 @@ export interface AppContext {
   auth: Auth;
   logger: Logger;
   rateLimits: RateLimits;
+  /** Each collection's record fingerprint, for the engine's answer cache. */
+  fingerprints: FingerprintMemo;
 }

@@ -47,7 +47,6 @@ import { requireRole } from '../middleware/access';
 import {
   areaNames,
   EngineCache,
-  engineFingerprint,
   ShapeCache,
   loadCollectionEngineData,
   loadPlantEngineData,
@@ -344,7 +343,7 @@ export function attentionItems(data: EngineData, date: IsoDate, shapeCache?: Sha
     }));
 }
 
-export function engineRoutes({ db }: AppContext): Router {
+export function engineRoutes({ db, fingerprints }: AppContext): Router {
   const router = Router();
   const viewer = requireRole(db, 'viewer');
   const cache = new EngineCache();
@@ -355,7 +354,7 @@ export function engineRoutes({ db }: AppContext): Router {
    * the JSON text sent (null when `compute` found nothing to answer).
    */
   async function collectionAnswer(collectionId: string, key: string, compute: (data: EngineData) => unknown): Promise<string | null> {
-    const fingerprint = await engineFingerprint(db, collectionId);
+    const fingerprint = await fingerprints.get(collectionId);
     return cache.get(`${collectionId}|${key}`, fingerprint, async () => {
       const body = await compute(await loadCollectionEngineData(db, collectionId));
       return body === null ? null : JSON.stringify(body);

@@ -269,6 +269,42 @@ export async function engineFingerprint(db: Executor, collectionId: string): Pro
   return `${row.p}|${row.l}|${row.m}|${row.b}|${row.a}`;
 }
 
+/** How long a collection's fingerprint is trusted without asking the database again. */
+export const FINGERPRINT_TTL_MS = 1000;
+
+/**
+ * Remembers each collection's fingerprint for FINGERPRINT_TTL_MS, so a cached engine answer
+ * costs no query at all. Writes made through this process `forget` the collection at once;
+ * a write through another server process shows within the TTL. A read that was in flight
+ * when the collection was forgotten is not stored (the generation moved on meanwhile).
+ */
+export class FingerprintMemo {
+  private entries = new Map<string, { fingerprint: string; at: number }>();
+  private generations = new Map<string, number>();
+
+  constructor(
+    private readonly read: (collectionId: string) => Promise<string>,
+    private readonly ttlMs = FINGERPRINT_TTL_MS,
+    private readonly now: () => number = Date.now,
+  ) {}
+
+  async get(collectionId: string): Promise<string> {
+    const hit = this.entries.get(collectionId);
+    if (hit && this.now() - hit.at < this.ttlMs) return hit.fingerprint;
+    const generation = this.generations.get(collectionId) ?? 0;
+    const fingerprint = await this.read(collectionId);
+    if ((this.generations.get(collectionId) ?? 0) === generation) {
+      this.entries.set(collectionId, { fingerprint, at: this.now() });
+    }
+    return fingerprint;
+  }
+
+  forget(collectionId: string): void {
+    this.entries.delete(collectionId);
+    this.generations.set(collectionId, (this.generations.get(collectionId) ?? 0) + 1);
+  }
+}
+
 /**
  * Engine answers kept per key (route, collection, query, today) for as long as the
  * collection's fingerprint stays the same: the engine is deterministic in its inputs, and a

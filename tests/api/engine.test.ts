@@ -19,7 +19,6 @@ import {
   leadForecastSchema,
   plantTrendSchema,
 } from '@/shared/schemas/engine';
-import { measurements } from '../../db/schema';
 import { curve, daysAgo, insertEngineRecords, pastLead, type EngineFixture } from '../factories/engine';
 import { buildCollectionWithMembers } from '../factories/users';
 import { testDb } from './support/database';
@@ -210,7 +209,11 @@ describe('GET /attention', () => {
 
     const before = await viewer.get(`${base()}/attention`);
     expect(before.body.items.some((i: { kind: string; leadLabel: string }) => i.kind === 'measure' && i.leadLabel === 'E0')).toBe(true);
-    await testDb().insert(measurements).values({ collectionId: members.collectionId, leadId: fx.leadIds['HL-004/E0'], measuredOn: daysAgo(0), heightMm: 200 });
+    // Written through the API, as a grower would: this process forgets the collection's
+    // fingerprint at once, so the next answer is computed anew.
+    const grower = browser(server.url, members.people.grower.cookie);
+    const written = await grower.post(`${base()}/leads/${fx.leadIds['HL-004/E0']}/measurements`, { date: daysAgo(0), heightMm: 200 });
+    expect(written.status, JSON.stringify(written.body)).toBe(201);
     const after = await viewer.get(`${base()}/attention`);
     expect(after.body.items.some((i: { kind: string; leadLabel: string }) => i.kind === 'measure' && i.leadLabel === 'E0')).toBe(false);
     // Keep the domain's copy in step for the tests after this one.
