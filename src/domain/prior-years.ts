@@ -58,7 +58,29 @@ interface AgedHeight {
   heightMm: number;
 }
 
-function agedHeights(h: LeadHistory, today?: IsoDate): AgedHeight[] {
+/**
+ * Aged heights are asked for many times per lead (every later lead of the plant compares with
+ * it), so they are remembered per measurements array. Inputs are treated as immutable: an
+ * array that grows (a new measurement pushed) misses the memory; one edited in place would not.
+ */
+const agedMemo = new WeakMap<readonly unknown[], Map<string, readonly AgedHeight[]>>();
+
+function agedHeights(h: LeadHistory, today?: IsoDate): readonly AgedHeight[] {
+  const key = `${h.lead.id}|${h.lead.firstSeen}|${today ?? ''}|${h.measurements.length}`;
+  let byKey = agedMemo.get(h.measurements);
+  if (!byKey) {
+    byKey = new Map();
+    agedMemo.set(h.measurements, byKey);
+  }
+  let found = byKey.get(key);
+  if (!found) {
+    found = computeAgedHeights(h, today);
+    byKey.set(key, found);
+  }
+  return found;
+}
+
+function computeAgedHeights(h: LeadHistory, today?: IsoDate): AgedHeight[] {
   return h.measurements
     .filter(
       (m) =>
