@@ -1,11 +1,12 @@
 import { Link } from 'expo-router';
 import { useMemo, useState } from 'react';
-import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
+import { Pressable, StyleSheet, View } from 'react-native';
 import { useCalendarQuery } from '@/api/queries/engine';
 import { useAreasQuery, usePlantsQuery, type PlantFilters } from '@/api/queries/records';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { Chip } from '@/components/chip';
+import { FilterRow } from '@/components/filter-row';
 import { QueryState } from '@/components/query-state';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
@@ -179,19 +180,6 @@ function InFlowerOn({ data, on, keep, filtering, wide }: { data: BloomCalendarRe
   );
 }
 
-function FilterRow({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <View style={styles.filterRow} role="group" aria-label={`Filter by ${label.toLowerCase()}`}>
-      <Text variant="label" color="textMuted">
-        {label}
-      </Text>
-      <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.chips}>
-        {children}
-      </ScrollView>
-    </View>
-  );
-}
-
 const styles = StyleSheet.create({
   controls: { gap: spacing.lg },
   controlsWide: { flexDirection: 'row', alignItems: 'flex-start', gap: spacing.xl },
@@ -199,8 +187,6 @@ const styles = StyleSheet.create({
   rangeWide: { flex: 1, gap: spacing.xs },
   dateWide: { width: 380 },
   rangeButtons: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm, marginTop: spacing.xs },
-  filterRow: { gap: spacing.xs },
-  chips: { gap: spacing.xs, paddingRight: spacing.lg },
   body: { gap: spacing.lg },
   flowerSections: { gap: spacing.lg },
   flowerSection: { gap: spacing.sm },

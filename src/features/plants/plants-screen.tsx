@@ -1,9 +1,10 @@
 import { Link, useRouter } from 'expo-router';
 import { useDeferredValue, useState } from 'react';
-import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
+import { Pressable, StyleSheet, View } from 'react-native';
 import { useAreasQuery, usePlantsQuery, type PlantFilters } from '@/api/queries/records';
 import { Button } from '@/components/button';
 import { Chip } from '@/components/chip';
+import { FilterRow } from '@/components/filter-row';
 import { QueryState } from '@/components/query-state';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
@@ -111,19 +112,6 @@ export function PlantsScreen() {
   );
 }
 
-function FilterRow({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <View style={styles.filterRow} role="group" aria-label={`Filter by ${label.toLowerCase()}`}>
-      <Text variant="label" color="textMuted" style={styles.filterLabel}>
-        {label}
-      </Text>
-      <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.chips}>
-        {children}
-      </ScrollView>
-    </View>
-  );
-}
-
 function PlantRow({ plant, units, wide }: { plant: PlantListItem; units: 'mm' | 'in'; wide: boolean }) {
   const where = [plant.areaName, plant.medium].filter(Boolean).join(' · ');
   return (
@@ -154,9 +142,6 @@ const styles = StyleSheet.create({
   toolbar: { gap: spacing.md },
   toolbarWide: { flexDirection: 'row', alignItems: 'flex-end' },
   search: { flex: 1 },
-  filterRow: { gap: spacing.xs },
-  filterLabel: { fontSize: 14 },
-  chips: { gap: spacing.xs, paddingRight: spacing.lg },
   list: { gap: spacing.md },
   grid: { gap: spacing.sm },
   gridWide: { flexDirection: 'row', flexWrap: 'wrap' },
