@@ -490,7 +490,7 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   let chance: number;
   if (open || buds) {
     chance = open ? 1 : BUDS_OPEN_CHANCE;
-    chanceReasons.push(open ? 'in flower' : 'buds visible (buds can still blast)');
+    chanceReasons.push(faded ? 'bloomed this season' : open ? 'in flower' : 'buds visible (buds can still blast)');
   } else if (lost) {
     chance = 0;
     chanceReasons.push(abortFlag && lead.status !== 'dried_off' && lead.status !== 'rotted' && lead.status !== 'removed' ? abortFlag.reason : `lead ${lead.status.replace('_', ' ')}`);

@@ -113,6 +113,10 @@ describe('forecastBloom', () => {
     const open = forecastBloom({ current: { ...c, bloom: { leadId: c.lead.id, budsSeen: '2026-09-12', firstOpen: '2026-10-02', lastFaded: null, flowerCount: 5, spikeCount: 1 } }, history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-10-05' });
     expect(open.stage).toBe('in_flower');
     expect(open.chance).toBe(1);
+    expect(open.chanceReasons).toContain('in flower');
+    const faded = forecastBloom({ current: { ...c, bloom: { leadId: c.lead.id, budsSeen: '2026-09-12', firstOpen: '2026-10-02', lastFaded: '2026-11-01', flowerCount: 5, spikeCount: 1 } }, history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-11-10' });
+    expect(faded.stage).toBe('faded');
+    expect(faded.chanceReasons).toEqual(['bloomed this season']);
     expect(open.firstOpen).toEqual({ p10: '2026-10-02', p50: '2026-10-02', p90: '2026-10-02' });
     expect(open.expectedFlowers.count).toBe(5);
   });
