@@ -3,6 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
 import { useCreateLeadMutation } from '@/api/queries/records';
 import { Button } from '@/components/button';
+import { FormActions } from '@/components/form-actions';
 import { Chip } from '@/components/chip';
 import { TextField } from '@/components/text-field';
 import { localToday, seasonOf } from '@/lib/dates';
@@ -35,7 +36,7 @@ export function AddLeadForm({ collectionId, plantId, leads, seasonStartMonth, on
       <View style={styles.chips}>
         <Chip label="From a back bulb" selected={fromBackBulb} onPress={() => setFromBackBulb((v) => !v)} />
       </View>
-      <View style={styles.actions}>
+      <FormActions onCancel={onDone}>
         <Button
           label="Save lead"
           loading={create.isPending}
@@ -47,8 +48,7 @@ export function AddLeadForm({ collectionId, plantId, leads, seasonStartMonth, on
             )
           }
         />
-        <Button label="Cancel" tone="quiet" onPress={onDone} />
-      </View>
+      </FormActions>
     </View>
   );
 }
@@ -56,5 +56,4 @@ export function AddLeadForm({ collectionId, plantId, leads, seasonStartMonth, on
 const styles = StyleSheet.create({
   form: { gap: spacing.md },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
-  actions: { flexDirection: 'row', gap: spacing.sm },
 });

@@ -3,13 +3,15 @@ import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
 import { useAddCareMutation } from '@/api/queries/records';
 import { Button } from '@/components/button';
+import { FormActions } from '@/components/form-actions';
 import { Card } from '@/components/card';
+import { Caution } from '@/components/caution';
 import { Chip } from '@/components/chip';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
 import { formatDate, localToday } from '@/lib/dates';
 import { careKinds, damageKinds, type Area, type CareEntry, type CareInput } from '@/shared/schemas/records';
-import { colors, radius, spacing } from '@/theme';
+import { colors, spacing } from '@/theme';
 
 type Kind = (typeof careKinds)[number];
 type Damage = (typeof damageKinds)[number];
@@ -20,10 +22,9 @@ const DAMAGE_LABELS: Record<Damage, string> = { sunburn: 'Sunburn', cold: 'Cold'
 /** The usual cautions for any pest or disease treatment; the product label always rules. */
 export function TreatmentCaution() {
   return (
-    <View style={styles.caution} role="note" testID="treatment-caution">
-      <Text variant="bodyStrong">Before you treat</Text>
+    <Caution title="Before you treat" testID="treatment-caution">
       <Text>Follow the product label: it is the law for that product. Wear gloves (and eye protection if it says so), work where the air moves or outdoors, keep children and pets away until it has dried, and follow your local rules on pesticides.</Text>
-    </View>
+    </Caution>
   );
 }
 
@@ -142,10 +143,9 @@ function CareForm({ collectionId, plantId, areas, onDone }: { collectionId: stri
       ) : null}
       <TextField label={kind === 'note' ? 'Note' : 'Note (optional)'} value={note} onChangeText={setNote} multiline error={error?.fieldError('note')} />
       {error && error.details.length === 0 ? <Text color="danger">{error.message}</Text> : null}
-      <View style={styles.actions}>
+      <FormActions onCancel={onDone}>
         <Button label="Save care entry" loading={add.isPending} onPress={() => add.mutate(build(), { onSuccess: onDone })} testID="save-care" />
-        <Button label="Cancel" tone="quiet" onPress={onDone} />
-      </View>
+      </FormActions>
     </View>
   );
 }
@@ -153,7 +153,5 @@ function CareForm({ collectionId, plantId, areas, onDone }: { collectionId: stri
 const styles = StyleSheet.create({
   form: { gap: spacing.md },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
-  caution: { gap: spacing.xs, padding: spacing.md, borderRadius: radius.md, backgroundColor: colors.warningSoft },
   entry: { gap: spacing.xxs, paddingTop: spacing.sm, borderTopWidth: 1, borderTopColor: colors.borderSubtle },
-  actions: { flexDirection: 'row', gap: spacing.sm },
 });

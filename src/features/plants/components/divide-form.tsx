@@ -3,6 +3,8 @@ import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
 import { useDividePlantMutation } from '@/api/queries/records';
 import { Button } from '@/components/button';
+import { FormActions } from '@/components/form-actions';
+import { Caution } from '@/components/caution';
 import { Chip } from '@/components/chip';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
@@ -30,8 +32,7 @@ export function DivideForm({ collectionId, plant, onDone }: { collectionId: stri
 
   return (
     <View style={styles.form} testID="divide-form">
-      <View style={styles.caution} role="note">
-        <Text variant="bodyStrong">Before you cut</Text>
+      <Caution title="Before you cut" testID="divide-caution">
         <Text>
           Sterilize the blade between plants — by flame, or a fresh bleach or trisodium phosphate soak — since tools spread
           orchid viruses from plant to plant (common practice). Take care with sharp tools and wear gloves with bleach.
@@ -39,7 +40,7 @@ export function DivideForm({ collectionId, plant, onDone }: { collectionId: stri
         <Text variant="caption" color="textMuted">
           Pieces of at least {MIN_BULBS_PER_DIVISION}–4 pseudobulbs with a lead re-establish best (common practice).
         </Text>
-      </View>
+      </Caution>
       <TextField label="Divided on" value={dividedOn} onChangeText={setDividedOn} hint="YYYY-MM-DD" error={error?.fieldError('dividedOn')} />
       {pieces.map((piece, index) => (
         <View key={index} style={styles.piece}>
@@ -75,7 +76,7 @@ export function DivideForm({ collectionId, plant, onDone }: { collectionId: stri
           {w}
         </Text>
       ))}
-      <View style={styles.actions}>
+      <FormActions onCancel={onDone} cancelLabel={warnings.length > 0 ? 'Done' : 'Cancel'}>
         <Button
           label="Divide the plant"
           loading={divide.isPending}
@@ -100,16 +101,13 @@ export function DivideForm({ collectionId, plant, onDone }: { collectionId: stri
             )
           }
         />
-        <Button label={warnings.length > 0 ? 'Done' : 'Cancel'} tone="quiet" onPress={onDone} />
-      </View>
+      </FormActions>
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   form: { gap: spacing.md },
-  caution: { gap: spacing.xs, padding: spacing.md, borderRadius: radius.md, backgroundColor: colors.warningSoft },
   piece: { gap: spacing.sm, padding: spacing.md, borderRadius: radius.md, borderWidth: 1, borderColor: colors.borderSubtle },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
-  actions: { flexDirection: 'row', gap: spacing.sm, flexWrap: 'wrap' },
 });

@@ -3,6 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
 import { useUpdatePlantMutation } from '@/api/queries/records';
 import { Button } from '@/components/button';
+import { FormActions } from '@/components/form-actions';
 import { Chip } from '@/components/chip';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
@@ -37,7 +38,7 @@ export function EditPlantForm({ collectionId, plant, areas, onDone }: { collecti
         ))}
       </View>
       <TextField label="Notes" value={notes} onChangeText={setNotes} multiline />
-      <View style={styles.actions}>
+      <FormActions onCancel={onDone}>
         <Button
           label="Save changes"
           loading={update.isPending}
@@ -49,8 +50,7 @@ export function EditPlantForm({ collectionId, plant, areas, onDone }: { collecti
             )
           }
         />
-        <Button label="Cancel" tone="quiet" onPress={onDone} />
-      </View>
+      </FormActions>
     </View>
   );
 }
@@ -58,5 +58,4 @@ export function EditPlantForm({ collectionId, plant, areas, onDone }: { collecti
 const styles = StyleSheet.create({
   form: { gap: spacing.md },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
-  actions: { flexDirection: 'row', gap: spacing.sm },
 });
