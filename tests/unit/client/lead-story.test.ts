@@ -116,6 +116,10 @@ describe('trendSentence', () => {
   ])('slope %d mm reads "%s"', (slope, words) => {
     expect(trendSentence(trend(slope), 'mm')).toContain(words);
   });
+  it('does not call a scatter a trend', () => {
+    const scattered = { ...trend(3), rSquared: 0.05 };
+    expect(trendSentence(scattered, 'mm')).toBe('No clear trend: mature leads vary from season to season more than they grow or shrink (r² 0.05).');
+  });
   it('needs two seasons', () => {
     expect(trendSentence(trend(null), 'mm')).toMatch(/Not enough mature leads/);
   });
