@@ -251,3 +251,115 @@ export const careEntries = pgTable(
     check('care_entries_one_subject', sql`(${t.plantId} is null) <> (${t.areaId} is null)`),
   ],
 );
+
+// ── Photos and mail ────────────────────────────────────────────────────────────────────
+
+/**
+ * A photograph of a plant, optionally of one lead or one measurement of it. The image
+ * files live in the photo store (local disk or S3) under `storage_key`; only members of
+ * the collection can fetch them, through the API.
+ */
+export const photos = pgTable(
+  'photos',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    collectionId: uuid('collection_id')
+      .notNull()
+      .references(() => collections.id, { onDelete: 'cascade' }),
+    plantId: uuid('plant_id')
+      .notNull()
+      .references(() => plants.id, { onDelete: 'cascade' }),
+    leadId: uuid('lead_id').references(() => leads.id, { onDelete: 'cascade' }),
+    measurementId: uuid('measurement_id').references(() => measurements.id, { onDelete: 'set null' }),
+    /** The day the photo shows: the measurement's date, else the picture's own date, else upload day. */
+    takenOn: date('taken_on').notNull(),
+    /** Prefix in the photo store; the display and thumbnail files hang off it. */
+    storageKey: text('storage_key').notNull(),
+    width: integer('width').notNull(),
+    height: integer('height').notNull(),
+    thumbWidth: integer('thumb_width').notNull(),
+    thumbHeight: integer('thumb_height').notNull(),
+    bytes: integer('bytes').notNull(),
+    caption: text('caption'),
+    uploadedBy: text('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex('photos_storage_key_unique').on(t.storageKey),
+    index('photos_plant_idx').on(t.plantId, t.takenOn),
+    index('photos_lead_idx').on(t.leadId, t.takenOn),
+    index('photos_collection_idx').on(t.collectionId),
+  ],
+);
+
+/** An owner's invitation by e-mail; the link's token is stored only as its SHA-256 hash. */
+export const invitations = pgTable(
+  'invitations',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    collectionId: uuid('collection_id')
+      .notNull()
+      .references(() => collections.id, { onDelete: 'cascade' }),
+    email: text('email').notNull(),
+    role: roleEnum('role').notNull(),
+    tokenHash: text('token_hash').notNull(),
+    invitedBy: text('invited_by').references(() => users.id, { onDelete: 'set null' }),
+    expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull(),
+    acceptedAt: timestamp('accepted_at', { withTimezone: true, mode: 'date' }),
+    acceptedBy: text('accepted_by').references(() => users.id, { onDelete: 'set null' }),
+    revokedAt: timestamp('revoked_at', { withTimezone: true, mode: 'date' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex('invitations_token_unique').on(t.tokenHash),
+    index('invitations_collection_idx').on(t.collectionId),
+  ],
+);
+
+/** A password-reset request; single use, short-lived, stored only as its SHA-256 hash. */
+export const passwordResets = pgTable(
+  'password_resets',
+  {
+    tokenHash: text('token_hash').primaryKey(),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull(),
+    usedAt: timestamp('used_at', { withTimezone: true, mode: 'date' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('password_resets_user_idx').on(t.userId)],
+);
+
+/**
+ * Per member and collection: whether the weekly digest is wanted, and the key its
+ * unsubscribe link carries (it can only switch the digest off, so it is kept as is).
+ */
+export const digestSubscriptions = pgTable(
+  'digest_subscriptions',
+  {
+    collectionId: uuid('collection_id')
+      .notNull()
+      .references(() => collections.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    optedOut: boolean('opted_out').notNull().default(false),
+    unsubscribeKey: text('unsubscribe_key').notNull(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.collectionId, t.userId] }),
+    uniqueIndex('digest_subscriptions_key_unique').on(t.unsubscribeKey),
+  ],
+);
+
+/** One row per digest period; the process that inserts it sends that period's mail. */
+export const digestRuns = pgTable('digest_runs', {
+  /** The period's name, such as "2026-W49". */
+  period: text('period').primaryKey(),
+  claimedBy: text('claimed_by').notNull(),
+  claimedAt: timestamp('claimed_at', { withTimezone: true }).notNull().defaultNow(),
+  finishedAt: timestamp('finished_at', { withTimezone: true }),
+  sent: integer('sent').notNull().default(0),
+});

@@ -6,7 +6,7 @@ import { runMigrations } from '../../db/migrate';
 import { seedDemo } from '../../db/seed';
 import { createApp } from '../../server/app';
 import { createRateLimits } from '../../server/middleware/rate-limit';
-import { E2E_DATABASE, E2E_PORT } from './constants';
+import { E2E_DATABASE, E2E_PORT, E2E_WEB_ROOT } from './constants';
 
 /**
  * The browser tests' server: the production web build and the real API on one loopback
@@ -29,7 +29,7 @@ async function main() {
   const app = createApp({
     db: database.db,
     logger: pino({ level: 'warn' }),
-    webRoot: path.join(__dirname, '..', '..', 'dist'),
+    webRoot: path.resolve(__dirname, '..', '..', E2E_WEB_ROOT),
     // The suite signs in dozens of times from one address; the limits themselves are
     // tested against the API (tests/api/auth.test.ts).
     rateLimits: createRateLimits({ perIp: 10_000, perAccount: 10_000, windowSeconds: 60 }),
