@@ -1,22 +1,29 @@
-import { SourceSans3_400Regular } from '@expo-google-fonts/source-sans-3/400Regular';
-import { SourceSans3_600SemiBold } from '@expo-google-fonts/source-sans-3/600SemiBold';
-import { SourceSans3_700Bold } from '@expo-google-fonts/source-sans-3/700Bold';
 import { QueryClientProvider } from '@tanstack/react-query';
-import { useFonts } from 'expo-font';
+import { FontDisplay, useFonts } from 'expo-font';
 import { Slot } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
 import { useState } from 'react';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 import { createQueryClient } from '@/api/query-client';
-import { FullScreenMessage } from '@/features/navigation/full-screen-message';
+import { fontFaces } from '@/theme';
 
 export { ErrorBoundary } from 'expo-router';
 
+/**
+ * Latin subsets (WOFF2) of the @expo-google-fonts/source-sans-3 files, made by
+ * scripts/fonts/subset.mjs. `swap`: text draws at once in the fallback and switches when a
+ * file arrives, so the first screen does not wait for fonts.
+ */
+const FONT_FILES = {
+  [fontFaces.regular]: { uri: require('../assets/fonts/SourceSans3_400Regular.latin.woff2'), display: FontDisplay.SWAP },
+  [fontFaces.semibold]: { uri: require('../assets/fonts/SourceSans3_600SemiBold.latin.woff2'), display: FontDisplay.SWAP },
+  [fontFaces.bold]: { uri: require('../assets/fonts/SourceSans3_700Bold.latin.woff2'), display: FontDisplay.SWAP },
+};
+
 export default function RootLayout() {
   const [queryClient] = useState(createQueryClient);
-  const [fontsLoaded, fontError] = useFonts({ SourceSans3_400Regular, SourceSans3_600SemiBold, SourceSans3_700Bold });
-
-  if (!fontsLoaded && !fontError) return <FullScreenMessage loading message="Opening Sympodia…" />;
+  // Starts loading the fonts; rendering does not wait for them.
+  useFonts(FONT_FILES);
   return (
     <SafeAreaProvider>
       <QueryClientProvider client={queryClient}>

@@ -1,3 +1,3 @@
 export { colors, type ColorName } from './colors';
 export { radius, spacing, TOUCH_TARGET, WIDE_BREAKPOINT } from './spacing';
-export { fonts, typeScale, type TypeVariant } from './typography';
+export { fontFaces, fonts, typeScale, type TypeVariant } from './typography';

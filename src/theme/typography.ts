@@ -1,10 +1,23 @@
 import type { TextStyle } from 'react-native';
 
-/** Source Sans 3 weights shipped in the bundle (loaded in app/_layout.tsx). */
-export const fonts = {
+/** Font family names registered by app/_layout.tsx for the shipped Source Sans 3 files. */
+export const fontFaces = {
   regular: 'SourceSans3_400Regular',
   semibold: 'SourceSans3_600SemiBold',
   bold: 'SourceSans3_700Bold',
+} as const;
+
+/**
+ * The screens draw before the font files arrive (they swap in when loaded), so each family
+ * names a system sans-serif to use meanwhile instead of the browser's default serif.
+ */
+const FALLBACK = 'system-ui, -apple-system, "Segoe UI", Roboto, Helvetica, Arial, sans-serif';
+
+/** Source Sans 3 weights, as CSS font-family lists with the fallback. */
+export const fonts = {
+  regular: `${fontFaces.regular}, ${FALLBACK}`,
+  semibold: `${fontFaces.semibold}, ${FALLBACK}`,
+  bold: `${fontFaces.bold}, ${FALLBACK}`,
 } as const;
 
 /** Type scale: sizes suit reading at arm's length outdoors (body 17 px). */
