@@ -23,6 +23,14 @@ import { leadRoutes } from './routes/leads';
 import { measurementRoutes } from './routes/measurements';
 import { plantRoutes } from './routes/plants';
 import { roundRoutes } from './routes/rounds';
+import { photoRoutes } from './routes/photos';
+import { localDiskStore, type PhotoStore } from './photos/store';
+import { digestRoutes, unsubscribeRoutes } from './routes/digest';
+import { invitationRoutes } from './routes/invitations';
+import { mailboxRoutes } from './routes/mailbox';
+import { passwordResetRoutes } from './routes/password-reset';
+import type { FakeSmtpServer } from './mail/fake-smtp';
+import type { Mailer } from './mail/mailer';
 
 export const JSON_BODY_LIMIT = '100kb';
 
@@ -36,7 +44,20 @@ export interface AppOptions {
   devOrigins?: string[];
   /** Express's trust-proxy setting, for a server behind a TLS-terminating proxy. */
   trustProxy?: boolean | number | string;
+  /** Where photos are kept; by default the ignored folder .data/photos beside the code. */
+  photoStore?: PhotoStore;
+  /** Sends the product's mail; without one, routes that mail answer 500 (a set-up mistake). */
+  mailer?: Mailer;
+  /** The local fake SMTP server; when given, /dev/mailbox lists what it received. */
+  mailbox?: FakeSmtpServer;
 }
+
+const NO_MAILER: Mailer = {
+  publicUrl: 'http://127.0.0.1',
+  send: async () => {
+    throw new Error('No mailer configured: pass createApp({ mailer })');
+  },
+};
 
 /** Builds the HTTP app without listening, so tests can drive it with supertest. */
 export function createApp(options: AppOptions): Express {
@@ -47,6 +68,8 @@ export function createApp(options: AppOptions): Express {
     logger,
     rateLimits: options.rateLimits ?? createRateLimits(),
     fingerprints: new FingerprintMemo((collectionId) => engineFingerprint(options.db, collectionId)),
+    mailer: options.mailer ?? NO_MAILER,
+    photos: options.photoStore ?? localDiskStore(path.join(__dirname, '..', '.data', 'photos')),
   };
   const devOrigins = options.devOrigins ?? [];
 
@@ -125,8 +148,14 @@ export function createApp(options: AppOptions): Express {
   api.use(careRoutes(ctx));
   api.use(roundRoutes(ctx));
   api.use(engineRoutes(ctx));
+  api.use(photoRoutes(ctx));
+  api.use(invitationRoutes(ctx));
+  api.use(passwordResetRoutes(ctx));
+  api.use(digestRoutes(ctx));
   api.use((req, _res, next) => next(new HttpError(404, 'no_route', `No API route ${req.method} ${req.path}`)));
   app.use('/api', api);
+  app.use(unsubscribeRoutes(ctx));
+  if (options.mailbox) app.use(mailboxRoutes(options.mailbox));
 
   if (options.webRoot) serveWebBuild(app, options.webRoot);
 
@@ -149,7 +178,9 @@ function serveWebBuild(app: Express, webRoot: string): void {
       },
     }),
   );
-  app.get('/{*splat}', (_req, res) => {
+  app.get('/{*splat}', (req, res, next) => {
+    // A missing file (a name with an extension) is a 404, not the app's page in its place.
+    if (/\.[a-z0-9]+$/i.test(req.path)) return next(new HttpError(404, 'not_found', `No file ${req.path}`));
     res.set('Cache-Control', 'no-cache');
     res.sendFile(indexFile);
   });

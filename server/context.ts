@@ -1,6 +1,8 @@
 import type { Logger } from 'pino';
 import type { Database } from '../db/client';
 import type { Auth } from './auth';
+import type { Mailer } from './mail/mailer';
+import type { PhotoStore } from './photos/store';
 import type { RateLimits } from './middleware/rate-limit';
 import type { FingerprintMemo } from './services/engine-data';
 
@@ -12,4 +14,8 @@ export interface AppContext {
   rateLimits: RateLimits;
   /** Each collection's record fingerprint, for the engine's answer cache. */
   fingerprints: FingerprintMemo;
+  /** Sends invitations, reset links and the weekly digest over SMTP. */
+  mailer: Mailer;
+  /** Where photo files are kept: local disk or an S3-compatible store. */
+  photos: PhotoStore;
 }

@@ -18,6 +18,38 @@ const envSchema = z.object({
   TRUST_PROXY: booleanFlag,
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   SEED_DEMO: booleanFlag,
+  /** Run the local fake SMTP server and /dev/mailbox (start, dev and e2e); never with SMTP_HOST. */
+  MAIL_FAKE: booleanFlag,
+  /** The fake SMTP server's port; 0 takes a free one. */
+  MAIL_FAKE_PORT: z.coerce.number().int().min(0).max(65535).default(0),
+  SMTP_HOST: z.string().min(1).optional(),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  SMTP_SECURE: booleanFlag,
+  MAIL_FROM: z.string().default('Sympodia <no-reply@sympodia.invalid>'),
+  /** Base of the links in mail, e.g. https://orchids.example.org; defaults to http://HOST:PORT. */
+  PUBLIC_URL: z.url().optional(),
+  /** Where photos are kept: a folder on this machine, or an S3-compatible object store. */
+  PHOTO_STORE: z.enum(['local', 's3']).default('local'),
+  /** The folder for PHOTO_STORE=local; defaults to .data/photos in the project. */
+  PHOTO_DIR: z.string().optional(),
+  S3_ENDPOINT: z.url().optional(),
+  S3_REGION: z.string().default('us-east-1'),
+  S3_BUCKET: z.string().min(3).optional(),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  S3_FORCE_PATH_STYLE: booleanFlag,
+}).superRefine((env, issues) => {
+  if (env.PHOTO_STORE === 's3' && !env.S3_BUCKET) {
+    issues.addIssue({ code: 'custom', path: ['S3_BUCKET'], message: 'PHOTO_STORE=s3 needs S3_BUCKET (and usually S3_ENDPOINT and keys)' });
+  }
+  if (env.MAIL_FAKE && env.SMTP_HOST) {
+    issues.addIssue({ code: 'custom', path: ['MAIL_FAKE'], message: 'MAIL_FAKE=1 and SMTP_HOST cannot both be set: choose the fake mailbox or a real SMTP server' });
+  }
+  if (env.NODE_ENV === 'production' && !env.MAIL_FAKE && !env.SMTP_HOST) {
+    issues.addIssue({ code: 'custom', path: ['SMTP_HOST'], message: 'Set SMTP_HOST (and PUBLIC_URL) to send mail, or MAIL_FAKE=1 for the local fake mailbox' });
+  }
 });
 
 export type ServerEnv = z.infer<typeof envSchema> & { DATABASE_URL: string };

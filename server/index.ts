@@ -5,6 +5,9 @@ import { runMigrations } from '../db/migrate';
 import { seedDemo } from '../db/seed';
 import { createApp } from './app';
 import { readEnv } from './env';
+import { mailFromEnv } from './mail/from-env';
+import { photoStoreFromEnv } from './photos/from-env';
+import { startDigestScheduler } from './services/digest';
 
 const SHUTDOWN_GRACE_MS = 10_000;
 
@@ -16,9 +19,13 @@ async function main() {
   const database = createDatabase(env.DATABASE_URL);
   if (env.SEED_DEMO) await seedDemo(database.db, { log: (line) => logger.info(line) });
 
+  const mail = await mailFromEnv(env, logger);
   const app = createApp({
     db: database.db,
     logger,
+    mailer: mail.mailer,
+    mailbox: mail.fake,
+    photoStore: photoStoreFromEnv(env),
     webRoot: env.WEB_ROOT ? path.resolve(env.WEB_ROOT) : undefined,
     devOrigins: env.DEV_ORIGINS,
     trustProxy: env.TRUST_PROXY || undefined,
@@ -27,6 +34,8 @@ async function main() {
   const server = app.listen(env.PORT, env.HOST, () => {
     logger.info(`Sympodia is listening on http://${env.HOST}:${env.PORT}`);
   });
+
+  const stopDigest = startDigestScheduler({ db: database.db, mailer: mail.mailer, logger });
 
   let stopping = false;
   const shutdown = (signal: string) => {
@@ -37,7 +46,9 @@ async function main() {
       logger.warn('requests still open after the grace period; closing anyway');
       server.closeAllConnections();
     }, SHUTDOWN_GRACE_MS);
+    stopDigest();
     server.close(async () => {
+      await mail.fake?.close();
       await database.close();
       logger.info('stopped');
       process.exit(0);

@@ -1,3 +1,5 @@
+import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import postgres from 'postgres';
 import pino from 'pino';
@@ -5,6 +7,9 @@ import { createDatabase } from '../../db/client';
 import { runMigrations } from '../../db/migrate';
 import { seedDemo } from '../../db/seed';
 import { createApp } from '../../server/app';
+import { localDiskStore } from '../../server/photos/store';
+import { startFakeSmtp } from '../../server/mail/fake-smtp';
+import { createSmtpMailer } from '../../server/mail/mailer';
 import { createRateLimits } from '../../server/middleware/rate-limit';
 import { E2E_DATABASE, E2E_PORT, E2E_WEB_ROOT } from './constants';
 
@@ -26,16 +31,30 @@ async function main() {
   const database = createDatabase(url.toString());
   await seedDemo(database.db, { log: () => {} });
 
+  // Mail goes to a fake SMTP server on a free loopback port; the specs read it at /dev/mailbox.
+  const mailbox = await startFakeSmtp(0);
+  const mailer = createSmtpMailer({ host: mailbox.host, port: mailbox.port, secure: false, from: 'Sympodia <no-reply@sympodia.invalid>', publicUrl: `http://127.0.0.1:${E2E_PORT}` });
+
+  // Photos go to a throwaway folder, removed when the server stops.
+  const photoDir = fs.mkdtempSync(path.join(os.tmpdir(), 'sympodia-e2e-photos-'));
+
   const app = createApp({
     db: database.db,
     logger: pino({ level: 'warn' }),
+    photoStore: localDiskStore(photoDir),
+    mailer,
+    mailbox,
     webRoot: path.resolve(__dirname, '..', '..', E2E_WEB_ROOT),
     // The suite signs in dozens of times from one address; the limits themselves are
     // tested against the API (tests/api/auth.test.ts).
     rateLimits: createRateLimits({ perIp: 10_000, perAccount: 10_000, windowSeconds: 60 }),
   });
   const server = app.listen(E2E_PORT, '127.0.0.1');
-  const stop = () => server.close(() => database.close().then(() => process.exit(0)));
+  const stop = () =>
+    server.close(() => {
+      fs.rmSync(photoDir, { recursive: true, force: true });
+      void database.close().then(() => process.exit(0));
+    });
   process.on('SIGTERM', stop);
   process.on('SIGINT', stop);
 }

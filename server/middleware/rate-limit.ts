@@ -18,6 +18,9 @@ export function createRateLimits(settings: RateLimitSettings = DEFAULT_AUTH_LIMI
   return {
     authIp: new RateLimiterMemory({ ...options, points: settings.perIp, keyPrefix: 'auth-ip' }),
     authAccount: new RateLimiterMemory({ ...options, points: settings.perAccount, keyPrefix: 'auth-account' }),
+    // Routes that send mail (invitations, password reset): the same budget, counted apart from sign-in.
+    mailIp: new RateLimiterMemory({ ...options, points: settings.perIp, keyPrefix: 'mail-ip' }),
+    mailAccount: new RateLimiterMemory({ ...options, points: settings.perAccount, keyPrefix: 'mail-account' }),
   };
 }
 

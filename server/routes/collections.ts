@@ -13,6 +13,7 @@ import type { AppContext } from '../context';
 import { requireRole, requireUser } from '../middleware/access';
 import { changeMembership, createCollectionFor, getCollection, listMembers } from '../services/collections';
 import { parse } from '../validate';
+import { withPhotoFilesRemoved } from '../services/photos';
 
 const memberParamsSchema = z.object({ userId: z.string().min(1).max(64) });
 
@@ -41,7 +42,8 @@ export function collectionRoutes(ctx: AppContext): Router {
   });
 
   router.delete('/collections/:collectionId', owner, async (_req, res) => {
-    await db.delete(collections).where(eq(collections.id, res.locals.membership!.collectionId));
+    const { collectionId } = res.locals.membership!;
+    await withPhotoFilesRemoved(db, ctx.photos, { collectionId }, () => db.delete(collections).where(eq(collections.id, collectionId)));
     res.status(204).end();
   });
 

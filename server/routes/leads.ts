@@ -6,10 +6,11 @@ import { createLead, deleteLead, leadDetail, updateLead } from '../services/lead
 import { putBloom } from '../services/measurements';
 import { pathId, sentFields } from '../services/records-support';
 import { parse } from '../validate';
+import { withPhotoFilesRemoved } from '../services/photos';
 
 const base = '/collections/:collectionId';
 
-export function leadRoutes({ db }: AppContext): Router {
+export function leadRoutes({ db, photos }: AppContext): Router {
   const router = Router();
   const grower = requireRole(db, 'grower');
 
@@ -32,7 +33,9 @@ export function leadRoutes({ db }: AppContext): Router {
   });
 
   router.delete(`${base}/leads/:leadId`, requireRole(db, 'owner'), async (req, res) => {
-    await deleteLead(db, res.locals.membership!.collectionId, pathId(req.params.leadId, 'That lead'));
+    const { collectionId } = res.locals.membership!;
+    const leadId = pathId(req.params.leadId, 'That lead');
+    await withPhotoFilesRemoved(db, photos, { collectionId, leadId }, () => deleteLead(db, collectionId, leadId));
     res.status(204).end();
   });
 

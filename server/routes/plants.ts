@@ -14,10 +14,11 @@ import { requireRole } from '../middleware/access';
 import { createPlant, deletePlant, dividePlant, listPlants, plantDetail, updatePlant } from '../services/plants';
 import { pathId, sentFields } from '../services/records-support';
 import { parse } from '../validate';
+import { withPhotoFilesRemoved } from '../services/photos';
 
 const base = '/collections/:collectionId/plants';
 
-export function plantRoutes({ db }: AppContext): Router {
+export function plantRoutes({ db, photos }: AppContext): Router {
   const router = Router();
   const viewer = requireRole(db, 'viewer');
   const grower = requireRole(db, 'grower');
@@ -46,7 +47,9 @@ export function plantRoutes({ db }: AppContext): Router {
   });
 
   router.delete(`${base}/:plantId`, requireRole(db, 'owner'), async (req, res) => {
-    await deletePlant(db, res.locals.membership!.collectionId, pathId(req.params.plantId, 'That plant'));
+    const { collectionId } = res.locals.membership!;
+    const plantId = pathId(req.params.plantId, 'That plant');
+    await withPhotoFilesRemoved(db, photos, { collectionId, plantId }, () => deletePlant(db, collectionId, plantId));
     res.status(204).end();
   });
 

@@ -11,7 +11,7 @@ import {
   type updatePlantInputSchema,
 } from '@/shared/schemas/records';
 import type { Database } from '../../db/client';
-import { areas, careEntries, leads, plants } from '../../db/schema';
+import { areas, careEntries, leads, photos, plants } from '../../db/schema';
 import { fieldError, notFound, StaleError } from '../errors';
 import { assertAreaInCollection } from './areas';
 import { leadSummariesByPlant, toCare, toPlant, toPlantRef } from './records-read';
@@ -261,6 +261,8 @@ export async function dividePlant(
           .update(leads)
           .set({ plantId: row.id, version: sql`${leads.version} + 1`, updatedAt: sql`now()` })
           .where(inArray(leads.id, piece.leadIds));
+        // A moved lead's photos show the new plant now.
+        await tx.update(photos).set({ plantId: row.id }).where(inArray(photos.leadId, piece.leadIds));
       } else {
         warnings.push({ piece: i, message: `Piece ${i + 1} (${piece.tag}) has no lead; a division usually needs a lead to grow on` });
       }

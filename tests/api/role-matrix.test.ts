@@ -1,4 +1,9 @@
+import fs from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { localDiskStore, type PhotoStore } from '../../server/photos/store';
+import { insertPhoto } from '../factories/photos';
 import { createApp } from '../../server/app';
 import {
   buildAreaInput,
@@ -10,6 +15,7 @@ import {
   buildRecords,
   daysAgo,
 } from '../factories/records';
+import { insertInvitation } from '../factories/mail';
 import { buildCollectionWithMembers, buildSignUp } from '../factories/users';
 import { testDb } from './support/database';
 import { registeredRoutes } from './support/routes';
@@ -86,16 +92,38 @@ const MATRIX: Record<string, Entry> = {
   'GET /api/collections/:collectionId/calendar': { expected: MEMBERS('viewer', 200) },
   'GET /api/collections/:collectionId/backtest': { expected: MEMBERS('viewer', 200) },
   'GET /api/collections/:collectionId/compare': { expected: MEMBERS('viewer', 200), query: '?by=medium' },
+  // Mail: invitations are the owners' business; the link itself is the credential for the invitee.
+  'GET /api/collections/:collectionId/invitations': { expected: MEMBERS('owner', 200) },
+  'POST /api/collections/:collectionId/invitations': { expected: MEMBERS('owner', 201), body: () => ({ email: 'new-partner@example.test', role: 'grower' }) },
+  'DELETE /api/collections/:collectionId/invitations/:invitationId': { expected: MEMBERS('owner', 204) },
+  'GET /api/invitations/:token': { expected: PUBLIC(200) },
+  'POST /api/invitations/:token/accept': { expected: SIGNED_IN(200) },
+  'POST /api/auth/password-reset': { expected: PUBLIC(202), body: () => ({ email: 'nobody@example.test' }) },
+  /** An unknown token: refused the same for everyone, signed in or not. */
+  'POST /api/auth/password-reset/complete': { expected: PUBLIC(400), body: () => ({ token: 'C'.repeat(43), password: 'pseudobulb-ladder-77' }) },
+  'GET /api/collections/:collectionId/digest': { expected: MEMBERS('viewer', 200) },
+  'PUT /api/collections/:collectionId/digest': { expected: MEMBERS('viewer', 200), body: () => ({ optedOut: true }) },
+  // Photos: members see them; growers add them (a JSON body carries no file: 400 once past the guard).
+  'POST /api/collections/:collectionId/photos': { expected: MEMBERS('grower', 400), body: () => ({}) },
+  'GET /api/collections/:collectionId/photos': { expected: MEMBERS('viewer', 200), query: '?leadId=:leadId' },
+  'GET /api/collections/:collectionId/photos/:photoId/:size': { expected: MEMBERS('viewer', 200) },
+  /** The fixture's photo was added by the grower, who may delete it. */
+  'DELETE /api/collections/:collectionId/photos/:photoId': { expected: MEMBERS('grower', 204) },
 };
 
 const PRINCIPALS: Principal[] = ['anonymous', 'outsider', 'viewer', 'grower', 'owner'];
 
 let server: TestServer;
+let photoDir: string;
+let photoStore: PhotoStore;
 beforeAll(async () => {
-  server = await startTestServer();
+  photoDir = await fs.mkdtemp(path.join(os.tmpdir(), 'sympodia-matrix-photos-'));
+  photoStore = localDiskStore(photoDir);
+  server = await startTestServer({ photoStore });
 });
 afterAll(async () => {
   await server.close();
+  await fs.rm(photoDir, { recursive: true, force: true });
 });
 
 describe('role matrix', () => {
@@ -113,6 +141,8 @@ describe('role matrix', () => {
     // A fresh collection for every case, so deletions cannot leak into the next one.
     const fixture = await buildCollectionWithMembers(testDb());
     const records = await buildRecords(testDb(), fixture.collectionId, fixture.people.grower.id);
+    const invitation = await insertInvitation(testDb(), fixture.collectionId, fixture.people.owner.id);
+    const photo = await insertPhoto(testDb(), photoStore, { collectionId: fixture.collectionId, userId: fixture.people.grower.id, role: 'grower' }, records.lead.id);
     const [method, template] = route.split(' ');
     const path = template
       .replace(':collectionId', fixture.collectionId)
@@ -121,7 +151,11 @@ describe('role matrix', () => {
       .replace(':plantId', records.plant.id)
       .replace(':leadId', records.lead.id)
       .replace(':measurementId', records.measurement.id)
-      .replace(':careId', records.care.id) + (entry.query ?? '');
+      .replace(':careId', records.care.id)
+      .replace(':invitationId', invitation.id)
+      .replace(':token', invitation.token)
+      .replace(':photoId', photo.id)
+      .replace(':size', 'thumb') + (entry.query ?? '').replace(':leadId', records.lead.id);
     const cookie = principal === 'anonymous' ? undefined : fixture.people[principal].cookie;
     const res = await browser(server.url, cookie).send(method.toLowerCase() as 'get', path, entry.body?.());
     expect(res.status, JSON.stringify(res.body)).toBe(status);

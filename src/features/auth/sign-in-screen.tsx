@@ -74,6 +74,9 @@ export function SignInScreen() {
         )}
       />
       <Button label="Sign in" testID="sign-in-submit" onPress={submit} loading={formState.isSubmitting} />
+      <Link href="/forgot-password" testID="to-forgot-password">
+        <Text color="accent">Forgot password?</Text>
+      </Link>
       <View style={styles.footer}>
         <Text color="textMuted">New to Sympodia?</Text>
         <Link href="/sign-up" testID="to-sign-up">

@@ -9,6 +9,8 @@ import { ROLE_LABELS } from '@/lib/format';
 import { spacing } from '@/theme';
 import { useCurrentCollection } from './current-collection';
 import { CollectionSettings } from './components/collection-settings';
+import { DigestSetting } from './components/digest-setting';
+import { InvitationsCard } from './components/invitations-card';
 import { MemberList } from './components/member-list';
 
 export function CollectionScreen() {
@@ -45,6 +47,8 @@ export function CollectionScreen() {
         </Column>
         <Column>
           {collection ? <MemberList collectionId={collection.id} myRole={collection.role} myUserId={me.data?.user.id} /> : null}
+          {collection?.role === 'owner' ? <InvitationsCard collectionId={collection.id} /> : null}
+          {collection ? <DigestSetting collectionId={collection.id} /> : null}
           <Card title="Your account">
             <Text>
               Signed in as <Text variant="bodyStrong">{me.data?.user.displayName}</Text> ({me.data?.user.email})

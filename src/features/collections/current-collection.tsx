@@ -10,6 +10,11 @@ interface CurrentCollection {
   select: (id: string) => void;
 }
 
+/** Makes `id` the collection this browser opens next (after accepting an invitation, say). */
+export function rememberCollection(id: string): void {
+  storage.set(STORAGE_KEY, id);
+}
+
 const Context = createContext<CurrentCollection | null>(null);
 
 /** Remembers which of the person's collections they are working in (per browser). */

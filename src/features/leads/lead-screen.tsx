@@ -19,6 +19,7 @@ import { plantDisplayName } from '@/shared/plant-name';
 import type { LeadDetail, SheathState } from '@/shared/schemas/records';
 import { spacing } from '@/theme';
 import { useCollectionSettings } from '../collections/use-collection-settings';
+import { PhotoStrip } from '../photos/components/photo-strip';
 import { SHEATH_LABELS, STATUS_LABELS } from '../plants/components/lead-chip';
 import { BloomForm } from './components/bloom-form';
 import { MeasurementForm } from './components/measurement-form';
@@ -103,6 +104,18 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
       <Columns>
         <Column>
           {lead.measurements.length > 0 ? <GrowthCard lead={lead} collectionId={collectionId} units={units} /> : null}
+          <Card title="Photos" testID="lead-photos">
+            <PhotoStrip
+              collectionId={collectionId}
+              subject={{ leadId: lead.id }}
+              canWrite={canWrite}
+              canDelete={(photo) => isOwner || (canWrite && photo.uploadedBy === me.data?.user.id)}
+              attachOptions={[
+                { label: 'This lead', target: { leadId: lead.id } },
+                ...(last ? [{ label: `Measurement of ${formatDate(last.date)}`, target: { measurementId: last.id } }] : []),
+              ]}
+            />
+          </Card>
           {canWrite ? (
             <Card title="Add a measurement" testID="add-measurement">
               <MeasurementForm key={last?.id ?? 'first'} last={last} units={units} onSave={(input) => add.mutateAsync({ ...input, clientKey: newClientKey() })} />

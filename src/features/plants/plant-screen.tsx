@@ -13,7 +13,9 @@ import { formatDate } from '@/lib/dates';
 import { plantDisplayName } from '@/shared/plant-name';
 import type { LeadSummary, PlantDetail } from '@/shared/schemas/records';
 import { colors, radius, spacing } from '@/theme';
+import { useMeQuery } from '@/api/queries/session';
 import { useCollectionSettings } from '../collections/use-collection-settings';
+import { PhotoStrip } from '../photos/components/photo-strip';
 import { AddLeadForm } from './components/add-lead-form';
 import { CareSection } from './components/care-section';
 import { DivideForm } from './components/divide-form';
@@ -44,6 +46,7 @@ function groupBySeason(leads: LeadSummary[]): Array<[number, LeadSummary[]]> {
 function PlantBody({ plant }: { plant: PlantDetail }) {
   const router = useRouter();
   const { collectionId, canWrite, isOwner, units, seasonStartMonth } = useCollectionSettings();
+  const me = useMeQuery();
   const areas = useAreasQuery(collectionId);
   const remove = useDeletePlantMutation(collectionId);
   const [panel, setPanel] = useState<Panel>('none');
@@ -106,6 +109,19 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
                 </View>
               </View>
             ))}
+          </Card>
+          <Card title="Photos, all seasons" testID="plant-photos">
+            <PhotoStrip
+              collectionId={collectionId}
+              subject={{ plantId: plant.id }}
+              canWrite={canWrite}
+              canDelete={(photo) => isOwner || (canWrite && photo.uploadedBy === me.data?.user.id)}
+              attachOptions={[{ label: 'The whole plant', target: { plantId: plant.id } }]}
+              describe={(photo) => {
+                const lead = photo.leadId ? plant.leads.find((l) => l.id === photo.leadId) : undefined;
+                return lead ? `lead ${lead.label}, ${lead.season}` : 'whole plant';
+              }}
+            />
           </Card>
         </Column>
         <Column>

@@ -2,6 +2,8 @@ import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import supertest from 'supertest';
 import { createApp, type AppOptions } from '../../../server/app';
+import { startFakeSmtp, type FakeSmtpServer } from '../../../server/mail/fake-smtp';
+import { createSmtpMailer } from '../../../server/mail/mailer';
 import { createRateLimits } from '../../../server/middleware/rate-limit';
 import { testDb } from './database';
 
@@ -11,20 +13,32 @@ export const RELAXED_LIMITS = { perIp: 10_000, perAccount: 10_000, windowSeconds
 export interface TestServer {
   url: string;
   server: Server;
+  /** The fake SMTP server on loopback this server's mail goes to. */
+  mail: FakeSmtpServer;
   close: () => Promise<void>;
 }
 
 /** The real app on a loopback port, so Origin and Host look as they do in a browser. */
 export async function startTestServer(options: Partial<AppOptions> = {}): Promise<TestServer> {
-  const app = createApp({ db: testDb(), rateLimits: createRateLimits(RELAXED_LIMITS), ...options });
+  const mail = await startFakeSmtp(0);
+  // The mailer needs the app's URL for its links and the app needs the mailer: fill it in after listen.
+  const smtp = createSmtpMailer({ host: mail.host, port: mail.port, secure: false, from: 'Sympodia <test@sympodia.invalid>', publicUrl: '' });
+  const mailer = { publicUrl: '', send: smtp.send };
+  const app = createApp({ db: testDb(), rateLimits: createRateLimits(RELAXED_LIMITS), mailer, mailbox: mail, ...options });
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(0, '127.0.0.1', () => resolve(s));
   });
   const { port } = server.address() as AddressInfo;
+  const url = `http://127.0.0.1:${port}`;
+  mailer.publicUrl = url;
   return {
-    url: `http://127.0.0.1:${port}`,
+    url,
     server,
-    close: () => new Promise((resolve) => server.close(() => resolve())),
+    mail,
+    close: async () => {
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      await mail.close();
+    },
   };
 }
 

@@ -52,9 +52,6 @@ export function MemberList({ collectionId, myRole, myUserId }: { collectionId: s
                 onRemove={() => remove.mutate(member.userId, { onSettled: () => setConfirming(null) })}
               />
             ))}
-            <Text variant="caption" color="textMuted">
-              Inviting people by e-mail is not available yet.
-            </Text>
           </View>
         )}
       </QueryState>

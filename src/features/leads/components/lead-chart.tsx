@@ -1,4 +1,4 @@
-import { lazy, Suspense, useState } from 'react';
+import { Component, lazy, type ReactNode, Suspense, useState } from 'react';
 import { ActivityIndicator, ScrollView, StyleSheet, View } from 'react-native';
 import { Button } from '@/components/button';
 import { Text } from '@/components/text';
@@ -25,14 +25,37 @@ export function LeadChart({ data, summary }: { data: LeadChartData; summary: str
         <ChartTable data={data} />
       ) : (
         <View accessible accessibilityRole="image" aria-label={`Chart: ${summary}`}>
-          <Suspense fallback={<ActivityIndicator color={colors.accent} style={styles.loading} accessibilityLabel="Drawing the chart" />}>
-            <SkiaChartHost data={data} />
-          </Suspense>
+          <ChartBoundary>
+            <Suspense fallback={<ActivityIndicator color={colors.accent} style={styles.loading} accessibilityLabel="Drawing the chart" />}>
+              <SkiaChartHost data={data} />
+            </Suspense>
+          </ChartBoundary>
         </View>
       )}
       <Button label={asTable ? 'Show as chart' : 'Show as table'} tone="quiet" onPress={() => setAsTable((v) => !v)} testID="chart-toggle" style={styles.toggle} />
     </View>
   );
+}
+
+/**
+ * A chart that cannot load or draw (the chart engine failed to download, no WebGL) stays a
+ * message inside its own box; the summary, the table and the rest of the screen carry on.
+ */
+class ChartBoundary extends Component<{ children: ReactNode }, { failed: boolean }> {
+  state = { failed: false };
+
+  static getDerivedStateFromError() {
+    return { failed: true };
+  }
+
+  render() {
+    if (!this.state.failed) return this.props.children;
+    return (
+      <Text color="textMuted" style={styles.loading} testID="chart-failed">
+        The chart could not be drawn here. “Show as table” has the same numbers.
+      </Text>
+    );
+  }
 }
 
 function Legend() {

@@ -1,0 +1,1 @@
+export { ForgotPasswordScreen as default } from '@/features/auth/forgot-password-screen';

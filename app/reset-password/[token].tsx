@@ -1,0 +1,1 @@
+export { ResetPasswordScreen as default } from '@/features/auth/reset-password-screen';
