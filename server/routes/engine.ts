@@ -1,4 +1,4 @@
-import { Router, type Response } from 'express';
+import { Router, type Request, type Response } from 'express';
 import type { z } from 'zod';
 import { median } from 'simple-statistics';
 import {
@@ -47,6 +47,7 @@ import { requireRole } from '../middleware/access';
 import {
   areaNames,
   EngineCache,
+  PreparedAnswer,
   ShapeCache,
   loadCollectionEngineData,
   loadPlantEngineData,
@@ -353,14 +354,23 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
    * A whole-collection answer, recomputed only when the collection's records changed; kept as
    * the JSON text sent (null when `compute` found nothing to answer).
    */
-  async function collectionAnswer(collectionId: string, key: string, compute: (data: EngineData) => unknown): Promise<string | null> {
+  async function collectionAnswer(collectionId: string, key: string, compute: (data: EngineData) => unknown): Promise<PreparedAnswer | null> {
     const fingerprint = await fingerprints.get(collectionId);
     return cache.get(`${collectionId}|${key}`, fingerprint, async () => {
       const body = await compute(await loadCollectionEngineData(db, collectionId));
-      return body === null ? null : JSON.stringify(body);
+      return body === null ? null : new PreparedAnswer(JSON.stringify(body));
     });
   }
-  const sendJson = (res: Response, body: string) => res.type('application/json').send(body);
+  /**
+   * Sends a prepared answer: 304 when the client's If-None-Match holds its ETag (Express checks
+   * freshness in `send`), else the bytes, gzipped from the cache when the client takes gzip (the
+   * compression middleware leaves a response that already has a Content-Encoding alone).
+   */
+  const sendJson = (req: Request, res: Response, answer: PreparedAnswer) => {
+    res.type('application/json').set('ETag', answer.etag).vary('Accept-Encoding');
+    if (req.acceptsEncodings('gzip', 'identity') === 'gzip') res.set('Content-Encoding', 'gzip').send(answer.gzip);
+    else res.send(answer.body);
+  };
 
   router.get(`${base}/leads/:leadId/forecast`, viewer, async (req, res) => {
     const { collectionId } = res.locals.membership!;
@@ -401,7 +411,7 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
     const body = await collectionAnswer(res.locals.membership!.collectionId, `attention|${date}`, (data) =>
       checked(attentionListSchema, { date, items: attentionItems(data, date, shapeCache) }),
     );
-    sendJson(res, body!);
+    sendJson(req, res, body!);
   });
 
   router.get(`${base}/calendar`, viewer, async (req, res) => {
@@ -415,12 +425,12 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
     const body = await collectionAnswer(res.locals.membership!.collectionId, `calendar|${today}|${from}|${to}|${on}`, (data) =>
       checked(bloomCalendarSchema, bloomCalendar(data, today, from, to, on, shapeCache)),
     );
-    sendJson(res, body!);
+    sendJson(req, res, body!);
   });
 
-  router.get(`${base}/backtest`, viewer, async (_req, res) => {
+  router.get(`${base}/backtest`, viewer, async (req, res) => {
     const body = await collectionAnswer(res.locals.membership!.collectionId, 'backtest', (data) => checked(backtestSchema, collectionBacktest(data)));
-    sendJson(res, body!);
+    sendJson(req, res, body!);
   });
 
   router.get(`${base}/compare`, viewer, async (req, res) => {
@@ -434,7 +444,7 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
       return checked(comparisonSchema, compareBy(data, query.by, plantId, today, names));
     });
     if (!body) throw notFound('That plant');
-    sendJson(res, body);
+    sendJson(req, res, body);
   });
 
   return router;

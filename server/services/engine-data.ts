@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto';
+import { gzipSync } from 'node:zlib';
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { earlierLeadShapes, genusDefaultsFor, type BloomHistory, type BloomRecord, type IsoDate, type Lead, type LeadShape, type Measurement, type Plant } from '@/domain';
 import { areas, bloomRecords, leads, measurements, plants } from '../../db/schema';
@@ -288,19 +289,31 @@ export class FingerprintMemo {
     private readonly now: () => number = Date.now,
   ) {}
 
+  /** Reads in flight, per collection and generation: concurrent misses share one query. */
+  private pending = new Map<string, { generation: number; read: Promise<string> }>();
+
   async get(collectionId: string): Promise<string> {
     const hit = this.entries.get(collectionId);
     if (hit && this.now() - hit.at < this.ttlMs) return hit.fingerprint;
     const generation = this.generations.get(collectionId) ?? 0;
-    const fingerprint = await this.read(collectionId);
-    if ((this.generations.get(collectionId) ?? 0) === generation) {
-      this.entries.set(collectionId, { fingerprint, at: this.now() });
+    const inFlight = this.pending.get(collectionId);
+    if (inFlight && inFlight.generation === generation) return inFlight.read;
+    const read = this.read(collectionId);
+    this.pending.set(collectionId, { generation, read });
+    try {
+      const fingerprint = await read;
+      if ((this.generations.get(collectionId) ?? 0) === generation) {
+        this.entries.set(collectionId, { fingerprint, at: this.now() });
+      }
+      return fingerprint;
+    } finally {
+      if (this.pending.get(collectionId)?.read === read) this.pending.delete(collectionId);
     }
-    return fingerprint;
   }
 
   forget(collectionId: string): void {
     this.entries.delete(collectionId);
+    this.pending.delete(collectionId);
     this.generations.set(collectionId, (this.generations.get(collectionId) ?? 0) + 1);
   }
 }
@@ -367,5 +380,26 @@ export class ShapeCache {
     this.entries.set(key, shapes);
     while (this.entries.size > this.maxEntries) this.entries.delete(this.entries.keys().next().value!);
     return shapes;
+  }
+}
+
+/**
+ * An engine answer as sent: the JSON bytes, a strong ETag of them, and the gzip of them made
+ * once on first need. Kept in the EngineCache, so a repeated request costs no serializing,
+ * hashing or compressing; the ETag lets a client revalidate with a 304.
+ */
+export class PreparedAnswer {
+  readonly body: Buffer;
+  readonly etag: string;
+  private gzipped: Buffer | null = null;
+
+  constructor(json: string) {
+    this.body = Buffer.from(json, 'utf8');
+    this.etag = `"${createHash('sha1').update(this.body).digest('base64url')}"`;
+  }
+
+  get gzip(): Buffer {
+    this.gzipped ??= gzipSync(this.body);
+    return this.gzipped;
   }
 }

@@ -4,7 +4,7 @@
  */
 import { median } from 'simple-statistics';
 import { forecastBloom, maturedOn, type BloomHistory } from './bloom-window';
-import { daysBetween, isIsoDate } from './dates';
+import { daysBetween, isIsoDate, shiftYears } from './dates';
 import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
 import type { IsoDate, Plant } from './types';
 
@@ -38,13 +38,6 @@ export interface BacktestPlant {
   plant: Pick<Plant, 'id' | 'genus'>;
   /** The plant's leads with measurements and bloom records. */
   leads: readonly BloomHistory[];
-}
-
-function shiftYears(date: IsoDate, years: number): IsoDate {
-  const y = Number(date.slice(0, 4)) + years;
-  let md = date.slice(5);
-  if (md === '02-29' && !(y % 4 === 0 && (y % 100 !== 0 || y % 400 === 0))) md = '02-28';
-  return `${String(y).padStart(4, '0')}-${md}`;
 }
 
 /**

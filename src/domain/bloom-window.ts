@@ -5,9 +5,12 @@
  * Intervals between stages are modelled as log-normal. The plant's own past intervals (one per
  * season) are shrunk toward the genus default with weight w = n/(n + k) on the log scale,
  * k = BLOOM_SHRINKAGE_K: with three seasons of history the plant and the genus count equally.
+ * Once a lead has matured, the plant's own usual first-flower day (its past first-open dates
+ * moved to this season) is blended in by precision, and the window is sized from the errors both
+ * made on the plant's past seasons (`blendWithSeason`).
  */
 import { mean, median, sampleVariance } from 'simple-statistics';
-import { addDays, daysBetween, isIsoDate } from './dates';
+import { addDays, daysBetween, isIsoDate, shiftedDayNumber, toDayNumber } from './dates';
 import {
   dailyDegreeDays,
   dateReachingDegreeDays,
@@ -20,7 +23,7 @@ import {
 import { normalCdf, normalQuantile } from './distributions';
 import type { LeadFlag } from './flags';
 import type { GenusDefaults, StageInterval } from './genus-defaults';
-import { fitLeadCurve, MIN_POINTS_FREE_FIT, type LeadCurveFit } from './growth-curve';
+import { fitAsOfLastMeasurement, MIN_POINTS_FREE_FIT, type LeadCurveFit } from './growth-curve';
 import { heightAtAge, linearFit, type LeadHistory } from './prior-years';
 import type { BloomRecord, IsoDate, Measurement, TemperatureReading } from './types';
 
@@ -97,7 +100,11 @@ function tallestOf(ms: readonly Measurement[]): number | null {
   return best;
 }
 
-function maturedOnSorted(ms: readonly Measurement[], lead: LeadHistory['lead'], genus: GenusDefaults): IsoDate | null {
+/**
+ * `ms`: the lead's valid measurements up to the date of interest, sorted; `measurementsOf`: the
+ * lead's stored list they came from, when given (the growth fit is then shared by list).
+ */
+function maturedOnSorted(ms: readonly Measurement[], lead: LeadHistory['lead'], genus: GenusDefaults, measurementsOf?: readonly Measurement[]): IsoDate | null {
   if (genus.bloomHabit !== 'no_sheath') {
     const sheathed = ms.find((m) => m.sheath !== 'none');
     if (sheathed) return sheathed.date;
@@ -112,9 +119,8 @@ function maturedOnSorted(ms: readonly Measurement[], lead: LeadHistory['lead'], 
   // mature height (the curve's own maturity, MATURITY_FRACTION) decides: the first look on or
   // after it.
   if (ms.length >= MIN_POINTS_FREE_FIT) {
-    const last = ms[ms.length - 1].date;
-    const fit = fitLeadCurve(ms, lead, { genusDefaults: genus, today: last });
-    if (fit.method === 'free') {
+    const fit = fitAsOfLastMeasurement(measurementsOf ?? ms, lead, genus, ms[ms.length - 1].date);
+    if (fit && fit.method === 'free') {
       const onFit = ms.find((m) => m.date >= fit.maturityDate)?.date ?? null;
       if (onFit && (byHeight === null || onFit < byHeight)) return onFit;
     }
@@ -142,7 +148,7 @@ function maturedOnCached(h: LeadHistory, ms: readonly Measurement[], genus: Genu
   }
   const key = `${h.lead.id}|${h.lead.firstSeen}|${h.lead.status}|${h.measurements.length}`;
   if (byKey.has(key)) return byKey.get(key)!;
-  const v = maturedOnSorted(ms, h.lead, genus);
+  const v = maturedOnSorted(ms, h.lead, genus, h.measurements);
   byKey.set(key, v);
   return v;
 }
@@ -154,7 +160,7 @@ function maturedOnCached(h: LeadHistory, ms: readonly Measurement[], genus: Genu
  * Measurements after `today` are ignored.
  */
 export function maturedOn(h: LeadHistory, genus: GenusDefaults, today?: IsoDate): IsoDate | null {
-  return maturedOnSorted(sortedMeasurements(h, today), h.lead, genus);
+  return maturedOnSorted(sortedMeasurements(h, today), h.lead, genus, h.measurements);
 }
 
 interface LogNormal {
@@ -236,6 +242,9 @@ export interface PastIntervals {
   tallestMm: number | null;
   flowerCount: number | null;
   spikeCount: number | null;
+  /** Date the lead matured and its first flower opened, when known (for the seasonal prior). */
+  maturedOn: IsoDate | null;
+  firstOpen: IsoDate | null;
 }
 
 /**
@@ -253,29 +262,53 @@ export function pastIntervals(
     const s = sumDegreeDays(readings, from, to, ddOptions);
     return s.missingDays === 0 ? s.degreeDays : null;
   };
+  const noReadings = !readings || readings.length === 0;
   return history.map((h) => {
-    const ms = sortedMeasurements(h);
-    const mature = maturedOnCached(h, ms, genus);
-    const b = h.bloom;
-    const buds = b?.budsSeen && isIsoDate(b.budsSeen) ? b.budsSeen : null;
-    const open = b?.firstOpen && isIsoDate(b.firstOpen) ? b.firstOpen : null;
-    const faded = b?.lastFaded && isIsoDate(b.lastFaded) ? b.lastFaded : null;
-    const drySeen = ms.find((m) => m.sheath === 'dry');
-    return {
-      season: h.lead.season,
-      leadId: h.lead.id,
-      matureToOpenDays: mature && open ? daysBetween(mature, open) : null,
-      budsToOpenDays: buds && open ? daysBetween(buds, open) : null,
-      openToFadedDays: open && faded ? daysBetween(open, faded) : null,
-      matureToOpenDegreeDays: mature && open ? dd(mature, open) : null,
-      budsToOpenDegreeDays: buds && open ? dd(buds, open) : null,
-      bloomed: open !== null || (b?.flowerCount ?? 0) > 0,
-      bloomedFromDrySheath: drySeen !== undefined && open !== null && drySeen.date <= open,
-      tallestMm: tallestOf(ms),
-      flowerCount: b?.flowerCount ?? null,
-      spikeCount: b?.spikeCount ?? null,
-    };
+    if (noReadings) {
+      const hit = pastRowMemo.get(h);
+      if (hit && hit.genus === genus && hit.lead === h.lead && hit.measurements === h.measurements && hit.count === h.measurements.length && hit.bloom === h.bloom) return hit.row;
+    }
+    const row = pastRow(h, genus, dd);
+    if (noReadings) pastRowMemo.set(h, { genus, lead: h.lead, measurements: h.measurements, count: h.measurements.length, bloom: h.bloom, row });
+    return row;
   });
+}
+
+/**
+ * Rows of `pastIntervals` without temperature readings, remembered per history object: each
+ * earlier lead is read by every forecast of the plant (each current lead, its flags, the
+ * attention list). A hit needs the same genus and the same lead, measurement list (and length)
+ * and bloom record objects, so a caller that builds new records gets a fresh row.
+ */
+const pastRowMemo = new WeakMap<
+  BloomHistory,
+  { genus: GenusDefaults; lead: BloomHistory['lead']; measurements: readonly Measurement[]; count: number; bloom: BloomRecord | null; row: PastIntervals }
+>();
+
+function pastRow(h: BloomHistory, genus: GenusDefaults, dd: (from: IsoDate, to: IsoDate) => number | null): PastIntervals {
+  const ms = sortedMeasurements(h);
+  const mature = maturedOnCached(h, ms, genus);
+  const b = h.bloom;
+  const buds = b?.budsSeen && isIsoDate(b.budsSeen) ? b.budsSeen : null;
+  const open = b?.firstOpen && isIsoDate(b.firstOpen) ? b.firstOpen : null;
+  const faded = b?.lastFaded && isIsoDate(b.lastFaded) ? b.lastFaded : null;
+  const drySeen = ms.find((m) => m.sheath === 'dry');
+  return {
+    season: h.lead.season,
+    leadId: h.lead.id,
+    matureToOpenDays: mature && open ? daysBetween(mature, open) : null,
+    budsToOpenDays: buds && open ? daysBetween(buds, open) : null,
+    openToFadedDays: open && faded ? daysBetween(open, faded) : null,
+    matureToOpenDegreeDays: mature && open ? dd(mature, open) : null,
+    budsToOpenDegreeDays: buds && open ? dd(buds, open) : null,
+    bloomed: open !== null || (b?.flowerCount ?? 0) > 0,
+    bloomedFromDrySheath: drySeen !== undefined && open !== null && drySeen.date <= open,
+    tallestMm: tallestOf(ms),
+    flowerCount: b?.flowerCount ?? null,
+    spikeCount: b?.spikeCount ?? null,
+    maturedOn: mature,
+    firstOpen: open,
+  };
 }
 
 export interface BloomForecastInput {
@@ -295,6 +328,11 @@ export interface BloomForecastInput {
    * 'lost' (chance 0, the flag's reason given) unless it already shows buds or flowers.
    */
   flags?: readonly LeadFlag[];
+  /**
+   * Blend the plant's usual first-flower day into the window of a matured lead (`blendWithSeason`);
+   * default true. Degree-day mode runs on the intervals alone.
+   */
+  seasonalPrior?: boolean;
 }
 
 /**
@@ -355,6 +393,100 @@ function windowFrom(start: IsoDate, ln: LogNormal, extraSdDays = 0, elapsedDays?
   return { window: { p10: at('p10'), p50: at('p50'), p90: at('p90') }, pBefore };
 }
 
+/**
+ * Spread (1 SD, days) of a plant's first-flower day from one season to the next, before its own
+ * seasons say otherwise: about three weeks (from memory; growers' records commonly show a plant
+ * opening within a few weeks of "its" date). Shrunk toward with the same n/(n + k) weight.
+ */
+export const SEASONAL_BLOOM_SD_DAYS = 21;
+
+/** The plant's usual first-flower day carried to this season, and the blend with the interval forecast. */
+export interface SeasonalBlend {
+  window: DateWindow;
+  pBefore: number;
+  /** Past first flowers behind the seasonal day, and the weight the seasonal day got (0–1). */
+  seasons: number;
+  seasonalWeight: number;
+}
+
+const meanSquare = (xs: readonly number[]) => xs.reduce((a, x) => a + x * x, 0) / xs.length;
+
+/**
+ * Blends the stage-interval forecast (start + the shrunk mature → open interval) with the
+ * plant's own seasonal first-flower day (its past first-open dates moved to this season, same
+ * month and day), weighted by precision, and sizes the window from the spread actually observed.
+ *
+ * - Each forecast's variance is its leave-one-season-out mean squared error on the plant's past
+ *   seasons (m seasons with both a maturity and a first-open date), shrunk toward the model's
+ *   own variance with weight m/(m + k), k = BLOOM_SHRINKAGE_K: the interval's model variance is
+ *   read off its log-normal 10th–90th percentiles, the seasonal one is the plant's spread of
+ *   first-flower days (shrunk toward SEASONAL_BLOOM_SD_DAYS) × (1 + 1/n).
+ * - Weights are inverse variances (precision weighting). The window is normal around the blend,
+ *   its variance the blend's own leave-one-season-out mean squared error shrunk the same way
+ *   toward the combined model variance 1/(1/v_I + 1/v_S), plus the interval's share of
+ *   `extraSdDays` (a predicted maturity date), so it is as wide as the plant's record warrants
+ *   rather than a stack of worst cases.
+ * - Null without a past first flower. With `elapsedDays`, conditioned on not having opened yet.
+ */
+export function blendWithSeason(
+  start: IsoDate,
+  season: number,
+  interval: LogNormal,
+  genusInterval: LogNormal,
+  past: readonly PastIntervals[],
+  extraSdDays = 0,
+  elapsedDays = 0,
+): SeasonalBlend | null {
+  const opened = past.filter((p): p is PastIntervals & { firstOpen: IsoDate } => p.firstOpen !== null);
+  const n = opened.length;
+  if (n === 0) return null;
+  const k = BLOOM_SHRINKAGE_K;
+  // The first-open day of `p` moved to season `to` (same month and day), as a day number.
+  const moved = (p: PastIntervals & { firstOpen: IsoDate }, to: number) => shiftedDayNumber(p.firstOpen, to - p.season);
+  const startDay = toDayNumber(start);
+  const offsets = opened.map((p) => moved(p, season) - startDay);
+  const seasonalMean = mean(offsets);
+  const plantVar = n >= 2 ? sampleVariance(offsets) : SEASONAL_BLOOM_SD_DAYS ** 2;
+  const seasonalVarModel = ((n * plantVar + k * SEASONAL_BLOOM_SD_DAYS ** 2) / (n + k)) * (1 + 1 / n);
+  const intervalMedian = Math.exp(interval.mu);
+  const intervalSd = (offsetAtZ(interval, extraSdDays, Z90) - offsetAtZ(interval, extraSdDays, Z10)) / (Z90 - Z10);
+  const intervalVarModel = Math.max(1, intervalSd ** 2);
+
+  // Leave-one-season-out errors of both forecasts on the plant's past seasons.
+  const eI: number[] = [];
+  const eS: number[] = [];
+  for (const p of opened) {
+    if (p.maturedOn === null) continue;
+    const others = opened.filter((q) => q.season !== p.season);
+    if (others.length === 0) continue;
+    const intervals: number[] = [];
+    let movedSum = 0;
+    for (const q of others) {
+      if (q.matureToOpenDays !== null) intervals.push(q.matureToOpenDays);
+      movedSum += moved(q, p.season);
+    }
+    const loo = shrinkLogInterval(intervals, genusInterval, k, { maxShiftSe: SHRINKAGE_MAX_SHIFT_SE });
+    const openDay = toDayNumber(p.firstOpen);
+    eI.push(openDay - toDayNumber(p.maturedOn) - Math.exp(loo.mu));
+    eS.push(openDay - movedSum / others.length);
+  }
+  const m = eI.length;
+  const shrunk = (observed: number, model: number) => (m * observed + k * model) / (m + k);
+  const vI = m ? shrunk(meanSquare(eI), intervalVarModel) : intervalVarModel;
+  const vS = m ? shrunk(meanSquare(eS), seasonalVarModel) : seasonalVarModel;
+  const wS = 1 / vS / (1 / vI + 1 / vS);
+  const wI = 1 - wS;
+  const centre = wI * intervalMedian + wS * seasonalMean;
+  const modelVar = 1 / (1 / vI + 1 / vS);
+  const blendVar = m ? shrunk(meanSquare(eI.map((e, i) => wI * e + wS * eS[i])), modelVar) : modelVar;
+  const sd = Math.sqrt(blendVar + (wI * extraSdDays) ** 2);
+
+  let pBefore = 0;
+  if (elapsedDays > 0) pBefore = normalCdf((elapsedDays - centre) / sd);
+  const at = (key: keyof typeof Z_OF) => addDays(start, Math.round(centre + sd * conditionedZ(WINDOW_LEVELS[key], pBefore, Z_OF[key])));
+  return { window: { p10: at('p10'), p50: at('p50'), p90: at('p90') }, pBefore, seasons: n, seasonalWeight: wS };
+}
+
 /** No percentile date of a lead not open yet lies before today. */
 function notBefore(w: DateWindow, today: IsoDate): DateWindow {
   const f = (d: IsoDate) => (d < today ? today : d);
@@ -368,7 +500,8 @@ function notBefore(w: DateWindow, today: IsoDate): DateWindow {
  * Starting point: the actual first-open date if recorded; else buds seen + (buds → open); else the
  * date the lead matured + (mature → open); else, while growing, the growth fit's maturity date
  * (spread MATURITY_DATE_SD_DAYS) + (mature → open). Intervals: the plant's own, shrunk toward the
- * genus sum of stage medians (see `shrinkLogInterval`). Degree-day mode is used when `readings`
+ * genus sum of stage medians (see `shrinkLogInterval`); from maturity (days mode) blended with
+ * the plant's usual first-flower day (see `blendWithSeason`). Degree-day mode is used when `readings`
  * give at least one past interval in degree-days; the genus default is then converted with the
  * history's mean daily degree-days, and the dates are projected with the area's recent normal.
  *
@@ -470,9 +603,22 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
       seasons = sh.n;
       weight = sh.weight;
       const predictedMaturity = !fromBuds && !mature;
-      const w = windowFrom(start, sh, predictedMaturity ? MATURITY_DATE_SD_DAYS : 0, daysBetween(start, today));
+      const extraSd = predictedMaturity ? MATURITY_DATE_SD_DAYS : 0;
+      // Once the lead has matured, the plant's usual first-flower day is blended in (unless the
+      // caller asks for the intervals alone). Not before: a lead still growing cannot flower on
+      // the plant's usual day however the calendar runs. Buds → open is short and tight on its own.
+      const blend =
+        stage === 'mature' && input.seasonalPrior !== false
+          ? blendWithSeason(start, lead.season, sh, genusM2O, past, extraSd, daysBetween(start, today))
+          : null;
+      const w = blend ?? windowFrom(start, sh, extraSd, daysBetween(start, today));
       firstOpen = w.window;
       elapsedNote(w.pBefore, start);
+      if (blend) {
+        notes.push(
+          `blended with the plant's usual first-flower day (${blend.seasons} earlier ${blend.seasons === 1 ? 'bloom' : 'blooms'}, weight ${Math.round(blend.seasonalWeight * 100)}%); window sized from how far its past seasons were off`,
+        );
+      }
       if (predictedMaturity) notes.push(`from the predicted maturity date ${start}`);
     }
     if (firstOpen) firstOpen = notBefore(firstOpen, today);

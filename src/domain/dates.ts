@@ -100,6 +100,26 @@ export function dayOfSeason(date: IsoDate, seasonStartMonth = 1): number {
   return day - start;
 }
 
+/**
+ * The same month and day `years` later (earlier when negative); 29 February becomes 28 February
+ * in a common year. How a past season's date is carried to another season.
+ */
+export function shiftYears(date: IsoDate, years: number): IsoDate {
+  const y = Number(date.slice(0, 4)) + years;
+  let md = date.slice(5);
+  if (md === '02-29' && !(y % 4 === 0 && (y % 100 !== 0 || y % 400 === 0))) md = '02-28';
+  return `${String(y).padStart(4, '0')}-${md}`;
+}
+
+/** Day number of `shiftYears(date, years)` without building the string (date must be valid). */
+export function shiftedDayNumber(date: IsoDate, years: number): number {
+  const y = digits(date, 0, 4) + years;
+  const m = digits(date, 5, 7);
+  let d = digits(date, 8, 10);
+  if (m === 2 && d === 29 && !isLeapYear(y)) d = 28;
+  return daysFromCivil(y, m, d);
+}
+
 /** Compares two ISO dates; negative when a is earlier. Lexical order equals date order. */
 export function compareDates(a: IsoDate, b: IsoDate): number {
   return a < b ? -1 : a > b ? 1 : 0;

@@ -432,3 +432,49 @@ export function fitLeadCurve(
     notes: [...chosen.notes, ...notes],
   };
 }
+
+/**
+ * Fits of finished leads as of their last measurement, remembered per measurement list: the
+ * same earlier lead is fitted for the plant's maturity dates and for its borrowed shapes.
+ * Keyed on the list's identity and everything else the fit reads, so the value is a pure
+ * function of the key.
+ */
+const asOfLastMemo = new WeakMap<GenusDefaults, WeakMap<readonly Measurement[], Map<string, LeadCurveFit>>>();
+
+/**
+ * `fitLeadCurve` of a lead with no borrowed shapes, on the date of its last valid measurement on
+ * or before `today` (all of them without `today`); null when it has none. The fitted curve
+ * (method, mature height, midpoint, scale, interval) is the one `fitLeadCurve` gives on any
+ * later date, since it reads the same measurements; only the "today" fields differ.
+ */
+export function fitAsOfLastMeasurement(
+  measurements: readonly Measurement[],
+  lead: Pick<Lead, 'id' | 'firstSeen'>,
+  genusDefaults: GenusDefaults,
+  today?: IsoDate,
+): LeadCurveFit | null {
+  let last: IsoDate | null = null;
+  for (const m of measurements) {
+    if (m.leadId !== lead.id || !isIsoDate(m.date) || (today !== undefined && m.date > today)) continue;
+    if (!Number.isFinite(m.heightMm) || m.heightMm < 0) continue;
+    if (last === null || m.date > last) last = m.date;
+  }
+  if (last === null) return null;
+  let byList = asOfLastMemo.get(genusDefaults);
+  if (!byList) {
+    byList = new WeakMap();
+    asOfLastMemo.set(genusDefaults, byList);
+  }
+  let byKey = byList.get(measurements);
+  if (!byKey) {
+    byKey = new Map();
+    byList.set(measurements, byKey);
+  }
+  const key = `${lead.id}|${lead.firstSeen}|${last}|${measurements.length}`;
+  let fit = byKey.get(key);
+  if (!fit) {
+    fit = fitLeadCurve(measurements, lead, { genusDefaults, today: last });
+    byKey.set(key, fit);
+  }
+  return fit;
+}

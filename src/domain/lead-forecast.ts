@@ -5,7 +5,7 @@
 import { forecastBloom, type BloomForecast, type BloomHistory } from './bloom-window';
 import { leadFlags, type LeadFlag } from './flags';
 import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
-import { fitLeadCurve, type LeadCurveFit, type LeadShape } from './growth-curve';
+import { fitAsOfLastMeasurement, fitLeadCurve, type LeadCurveFit, type LeadShape } from './growth-curve';
 import { compareWithPriorYears, type PriorYearsComparison } from './prior-years';
 import type { IsoDate, Plant, TemperatureReading } from './types';
 
@@ -21,8 +21,10 @@ export function earlierLeadShapes(leads: readonly BloomHistory[], genus: GenusDe
   const shapes: LeadShape[] = [];
   for (const h of leads) {
     if (!seasons.includes(h.lead.season) || h.lead.status === 'growing') continue;
-    const fit = fitLeadCurve(h.measurements, h.lead, { genusDefaults: genus, today });
-    if (fit.method === 'free') shapes.push({ midpointDays: fit.midpointDays, scaleDays: fit.scaleDays, matureHeightMm: fit.matureHeightMm });
+    // The curve as of the lead's last measurement is the one fitted on `today` (same points),
+    // and is shared with the maturity dates the bloom forecast reads.
+    const fit = fitAsOfLastMeasurement(h.measurements, h.lead, genus, today);
+    if (fit && fit.method === 'free') shapes.push({ midpointDays: fit.midpointDays, scaleDays: fit.scaleDays, matureHeightMm: fit.matureHeightMm });
   }
   return shapes;
 }

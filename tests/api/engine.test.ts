@@ -1,4 +1,5 @@
 import { median } from 'simple-statistics';
+import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
   attentionList,
@@ -216,9 +217,30 @@ describe('GET /attention', () => {
     expect(written.status, JSON.stringify(written.body)).toBe(201);
     const after = await viewer.get(`${base()}/attention`);
     expect(after.body.items.some((i: { kind: string; leadLabel: string }) => i.kind === 'measure' && i.leadLabel === 'E0')).toBe(false);
+    // A changed answer has a new ETag, so a client revalidating gets the new list, not a 304.
+    expect(after.headers.etag).not.toBe(before.headers.etag);
     // Keep the domain's copy in step for the tests after this one.
     const e0 = fx.domain['HL-004'].own.find((h) => h.lead.label === 'E0')!;
     (e0.measurements as unknown[]).push({ id: 'added', leadId: e0.lead.id, date: daysAgo(0), heightMm: 200, leafCount: null, sheath: 'none', rootTips: null, bulbWidthMm: null });
+  });
+});
+
+describe('GET /attention as sent', () => {
+  it('carries an ETag of its bytes, answers 304 to it, and gzips on request', async () => {
+    const attention = () => supertest(server.url).get(`${base()}/attention`).set('Cookie', members.people.viewer.cookie);
+    const first = await attention().set('Accept-Encoding', 'identity');
+    expect(first.status).toBe(200);
+    const etag = first.headers.etag as string;
+    expect(etag).toMatch(/^"[A-Za-z0-9_-]+"$/);
+    const again = await attention().set('If-None-Match', etag);
+    expect(again.status).toBe(304);
+    const zipped = await attention().set('Accept-Encoding', 'gzip');
+    expect(zipped.headers['content-encoding']).toBe('gzip');
+    expect(zipped.headers.etag).toBe(etag);
+    expect(zipped.body).toEqual(first.body);
+    const plain = await attention().set('Accept-Encoding', 'identity');
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect(plain.body).toEqual(first.body);
   });
 });
 

@@ -37,11 +37,16 @@ describe('leave-one-season-out backtest', () => {
 
   it('beats "same day as last year" when flowering follows maturity', () => {
     expect(result.beatsNaive).toBe(true);
-    // Plant interval 61 days shrunk toward the genus 66 days with weight 5/8: a few days off.
-    expect(result.medianAbsErrorDays!).toBeLessThanOrEqual(3);
+    // Plant interval 61 days shrunk toward the genus 66 days with weight 5/8, blended with the
+    // plant's usual first-flower day, which its own seasons show to be poor (errors of 20–35
+    // days): the day gets little weight, so the forecast stays well under the naive error.
+    expect(result.medianAbsErrorDays!).toBeLessThanOrEqual(10);
+    expect(result.medianAbsErrorDays!).toBeLessThan(result.naive.medianAbsErrorDays! / 3);
     // Naive errors are the season-to-season moves of maturity: 20, 35, 25, 30, 35 days.
     expect(result.naive.medianAbsErrorDays).toBe(30);
-    expect(result.shareInside80).toBe(1);
+    // The window is sized from the errors the plant's seasons show, not from worst cases: an
+    // 80% window holds most but not necessarily all of twelve dates.
+    expect(result.shareInside80!).toBeGreaterThanOrEqual(0.75);
   });
 
   it('reports each season with its forecast and the naive date', () => {

@@ -4,6 +4,7 @@ import {
   BUDS_OPEN_CHANCE,
   BLOOM_SHRINKAGE_K,
   CHANCE_FACTORS,
+  blendWithSeason,
   forecastBloom,
   maturedOn,
   shrinkLogInterval,
@@ -79,7 +80,8 @@ describe('maturedOn', () => {
 
 describe('forecastBloom', () => {
   it('forecasts from maturity with the plant history shrunk toward the genus', () => {
-    const f = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    // The intervals alone (the seasonal blend is checked below).
+    const f = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10', seasonalPrior: false });
     expect(f.stage).toBe('mature');
     expect(f.stageDate).toBe('2026-08-03');
     expect(f.history.seasons).toBe(4);
@@ -187,9 +189,45 @@ describe('forecastBloom', () => {
     for (let d = '2022-01-01'; d <= '2026-08-10'; d = addDays(d, 1)) readings.push({ areaId: 'a', date: d, minC: 13.5, maxC: 23.5 });
     const f = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10', readings });
     expect(f.mode).toBe('degree-days');
-    // Constant 15 degree-days a day: the same answer as counting days.
-    const days = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' });
+    // Constant 15 degree-days a day: the same answer as counting days (degree-day mode runs on
+    // the intervals alone, so the days forecast is taken without the seasonal blend).
+    const days = forecastBloom({ current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10', seasonalPrior: false });
     expect(Math.abs(daysBetween(days.firstOpen!.p50, f.firstOpen!.p50))).toBeLessThanOrEqual(1);
+  });
+
+  it('blends in the plant\'s usual first-flower day once the lead has matured', () => {
+    const input = { current: currentLead('forming'), history: fourSeasons, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-08-10' };
+    const blended = forecastBloom(input);
+    const intervals = forecastBloom({ ...input, seasonalPrior: false });
+    const usual = fourSeasons.map((h) => daysBetween(`${h.lead.season}-08-03`, h.bloom!.firstOpen!));
+    const lo = Math.min(...usual, daysBetween('2026-08-03', intervals.firstOpen!.p50));
+    const hi = Math.max(...usual, daysBetween('2026-08-03', intervals.firstOpen!.p50));
+    // A precision-weighted mean lies between the interval forecast and the seasonal days.
+    const likely = daysBetween('2026-08-03', blended.firstOpen!.p50);
+    expect(likely).toBeGreaterThanOrEqual(lo - 1);
+    expect(likely).toBeLessThanOrEqual(hi + 1);
+    expect(blended.notes.some((n) => n.includes('usual first-flower day'))).toBe(true);
+    expect(blended.firstOpen!.p10 < blended.firstOpen!.p50 && blended.firstOpen!.p50 < blended.firstOpen!.p90).toBe(true);
+  });
+
+  it.each([
+    ['no past first flower', [] as number[]],
+    ['one past first flower', [0]],
+  ])('blendWithSeason with %s', (_name, seasons) => {
+    const past = seasons.map((i) => ({
+      season: 2025 - i, leadId: `l${i}`, matureToOpenDays: 60, budsToOpenDays: null, openToFadedDays: null, matureToOpenDegreeDays: null,
+      budsToOpenDegreeDays: null, bloomed: true, bloomedFromDrySheath: false, tallestMm: 150, flowerCount: null, spikeCount: null,
+      maturedOn: `${2025 - i}-08-01`, firstOpen: `${2025 - i}-09-30`,
+    }));
+    const ln = { mu: Math.log(60), sigma: 0.3 };
+    const b = blendWithSeason('2026-08-01', 2026, ln, ln, past);
+    if (seasons.length === 0) expect(b).toBeNull();
+    else {
+      // Interval and seasonal day agree (60 days after 1 August is 30 September): the blend is that day.
+      expect(b!.window.p50).toBe('2026-09-30');
+      expect(b!.seasonalWeight).toBeGreaterThan(0);
+      expect(b!.seasonalWeight).toBeLessThan(1);
+    }
   });
 
   it('percentiles are always ordered (fast-check)', () => {
