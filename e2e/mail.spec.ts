@@ -30,6 +30,11 @@ test('an owner invites a partner, who follows the link from the dev mailbox, sig
   const invite = page.getByTestId('invite-screen');
   await expect(invite.getByTestId('invite-collection')).toHaveText(DEMO_COLLECTION_NAME);
   await expect(invite.getByTestId('invite-account-email')).toHaveValue(email);
+  // Someone with an account who forgot its password has a way out from here.
+  await expect(invite.getByTestId('invite-forgot-password')).toHaveCount(0);
+  await invite.getByRole('radio', { name: 'I have an account' }).click();
+  await expect(invite.getByTestId('invite-forgot-password')).toHaveAttribute('href', '/forgot-password');
+  await invite.getByRole('radio', { name: 'I am new here' }).click();
   await invite.getByTestId('invite-name').fill('Anouk Brenner');
   await invite.getByTestId('invite-password').fill('rhizome-and-mount-41');
   await keepScreenshot(page, 'invite', info.project.name);

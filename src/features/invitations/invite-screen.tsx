@@ -1,4 +1,4 @@
-import { useLocalSearchParams, useRouter } from 'expo-router';
+import { Link, useLocalSearchParams, useRouter } from 'expo-router';
 import { useRef, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
@@ -163,6 +163,12 @@ function InviteBody({ token, invitation, signedInAs }: { token: string; invitati
             onSubmitEditing={submit}
           />
           <Button label={mode === 'sign-up' ? 'Create account and join' : 'Sign in and join'} testID="invite-submit" loading={busy} onPress={submit} />
+          {mode === 'sign-in' ? (
+            // The invitation mail stays valid meanwhile: its link brings the person back here.
+            <Link href="/forgot-password" testID="invite-forgot-password">
+              <Text color="accent">Forgot password? Reset it, then open the invitation link again.</Text>
+            </Link>
+          ) : null}
         </>
       )}
     </View>
