@@ -5,7 +5,7 @@ import { useCompletePasswordResetMutation } from '@/api/queries/mail';
 import { Button } from '@/components/button';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
-import { newPasswordSchema } from '@/shared/schemas/auth';
+import { NEW_PASSWORD_HINT, newPasswordSchema } from '@/shared/schemas/auth';
 import { AuthFrame } from './auth-frame';
 import { FormError } from './form-error';
 
@@ -49,7 +49,7 @@ export function ResetPasswordScreen() {
         value={password}
         onChangeText={setPassword}
         error={errors.password}
-        hint="At least 10 characters; a few unrelated words work well"
+        hint={NEW_PASSWORD_HINT}
       />
       <TextField
         label="The same password again"

@@ -8,7 +8,7 @@ import { useSignUpMutation } from '@/api/queries/session';
 import { Button } from '@/components/button';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
-import { PASSWORD_MIN_LENGTH, signUpInputSchema } from '@/shared/schemas/auth';
+import { NEW_PASSWORD_HINT, signUpInputSchema } from '@/shared/schemas/auth';
 import { spacing } from '@/theme';
 import { AuthFrame } from './auth-frame';
 import { FormError } from './form-error';
@@ -80,7 +80,7 @@ export function SignUpScreen() {
             testID="sign-up-password"
             autoComplete="new-password"
             secureTextEntry
-            hint={`At least ${PASSWORD_MIN_LENGTH} characters; a short phrase is easy to remember.`}
+            hint={NEW_PASSWORD_HINT}
             value={field.value}
             onChangeText={field.onChange}
             onBlur={field.onBlur}

@@ -13,7 +13,7 @@ import { AuthFrame } from '@/features/auth/auth-frame';
 import { FormError } from '@/features/auth/form-error';
 import { rememberCollection } from '@/features/collections/current-collection';
 import { ROLE_LABELS } from '@/lib/format';
-import { signInInputSchema, signUpInputSchema } from '@/shared/schemas/auth';
+import { NEW_PASSWORD_HINT, signInInputSchema, signUpInputSchema } from '@/shared/schemas/auth';
 import type { InvitationPreview } from '@/shared/schemas/mail';
 import { spacing } from '@/theme';
 
@@ -159,7 +159,7 @@ function InviteBody({ token, invitation, signedInAs }: { token: string; invitati
             value={password}
             onChangeText={setPassword}
             error={errors.password}
-            hint={mode === 'sign-up' ? 'At least 10 characters; a few unrelated words work well' : undefined}
+            hint={mode === 'sign-up' ? NEW_PASSWORD_HINT : undefined}
             onSubmitEditing={submit}
           />
           <Button label={mode === 'sign-up' ? 'Create account and join' : 'Sign in and join'} testID="invite-submit" loading={busy} onPress={submit} />

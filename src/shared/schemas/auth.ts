@@ -2,6 +2,8 @@ import { z } from 'zod';
 
 /** Fewer characters than this are refused; length matters more than symbols (NIST SP 800-63B). */
 export const PASSWORD_MIN_LENGTH = 10;
+/** Shown under every field where a new password is chosen. */
+export const NEW_PASSWORD_HINT = `At least ${PASSWORD_MIN_LENGTH} characters; a few unrelated words are easy to remember`;
 export const PASSWORD_MAX_LENGTH = 200;
 
 export const emailSchema = z
