@@ -3,6 +3,7 @@ import {
   type AnyPgColumn,
   boolean,
   check,
+  jsonb,
   date,
   index,
   integer,
@@ -131,6 +132,18 @@ export const plants = pgTable(
     dividedOn: date('divided_on'),
     /** Position in the collection's saved Rounds order; null sorts after, by area then tag. */
     roundPosition: integer('round_position'),
+    /** The grower's own minimum night temperature for this plant, °C; null uses the genus default. */
+    minNightTempC: real('min_night_temp_c'),
+    /**
+     * A read-only copy of another grower's plant, brought in with a division handed over to
+     * this collection so the division's forecasts start from its real history. No writes.
+     */
+    historyOnly: boolean('history_only').notNull().default(false),
+    /** Set on the giver's plant when it was handed to someone else (see division_handoffs). */
+    givenAwayOn: date('given_away_on'),
+    givenTo: text('given_to'),
+    /** Set on the recipient's plant: who handed it over. */
+    receivedFrom: text('received_from'),
     version: integer('version').notNull().default(1),
     createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
     ...timestamps,
@@ -140,6 +153,7 @@ export const plants = pgTable(
     index('plants_parent_idx').on(t.parentPlantId),
     index('plants_area_idx').on(t.areaId),
     check('plants_division_dated', sql`(${t.parentPlantId} is null) or (${t.dividedOn} is not null)`),
+    check('plants_min_night_temp_range', sql`${t.minNightTempC} is null or ${t.minNightTempC} between -20 and 35`),
   ],
 );
 
@@ -363,3 +377,77 @@ export const digestRuns = pgTable('digest_runs', {
   finishedAt: timestamp('finished_at', { withTimezone: true }),
   sent: integer('sent').notNull().default(0),
 });
+
+// ── Import, hand-off and cold nights ───────────────────────────────────────────────────
+
+/**
+ * The column mapping a collection last used for a spreadsheet with a given header row, so the
+ * same file (or next year's from the same template) maps itself. `header_key` is the SHA-256 of
+ * the normalised header names in order.
+ */
+export const importMappings = pgTable(
+  'import_mappings',
+  {
+    collectionId: uuid('collection_id')
+      .notNull()
+      .references(() => collections.id, { onDelete: 'cascade' }),
+    headerKey: text('header_key').notNull(),
+    /** Our field name → the spreadsheet's column name, plus the grower's date order and unit. */
+    mapping: jsonb('mapping').notNull(),
+    updatedBy: text('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.collectionId, t.headerKey] })],
+);
+
+/**
+ * A division sent to someone by e-mail. The link's token is stored only as its SHA-256 hash;
+ * on acceptance the plant (with a read-only copy of its lineage history) is copied into a
+ * collection of the recipient's, and the giver's plant notes where it went.
+ */
+export const divisionHandoffs = pgTable(
+  'division_handoffs',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    collectionId: uuid('collection_id')
+      .notNull()
+      .references(() => collections.id, { onDelete: 'cascade' }),
+    plantId: uuid('plant_id')
+      .notNull()
+      .references(() => plants.id, { onDelete: 'cascade' }),
+    recipientEmail: text('recipient_email').notNull(),
+    note: text('note'),
+    tokenHash: text('token_hash').notNull(),
+    sentBy: text('sent_by').references(() => users.id, { onDelete: 'set null' }),
+    expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull(),
+    acceptedAt: timestamp('accepted_at', { withTimezone: true, mode: 'date' }),
+    acceptedBy: text('accepted_by').references(() => users.id, { onDelete: 'set null' }),
+    acceptedCollectionId: uuid('accepted_collection_id').references(() => collections.id, { onDelete: 'set null' }),
+    acceptedPlantId: uuid('accepted_plant_id').references(() => plants.id, { onDelete: 'set null' }),
+    revokedAt: timestamp('revoked_at', { withTimezone: true, mode: 'date' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex('division_handoffs_token_unique').on(t.tokenHash),
+    index('division_handoffs_collection_idx').on(t.collectionId),
+    index('division_handoffs_plant_idx').on(t.plantId),
+  ],
+);
+
+/**
+ * One row per collection and cold night for which the same-day warning went out; the process
+ * that inserts the row sends the mail, so several servers send it once.
+ */
+export const coldNightAlerts = pgTable(
+  'cold_night_alerts',
+  {
+    collectionId: uuid('collection_id')
+      .notNull()
+      .references(() => collections.id, { onDelete: 'cascade' }),
+    night: date('night').notNull(),
+    claimedBy: text('claimed_by').notNull(),
+    claimedAt: timestamp('claimed_at', { withTimezone: true }).notNull().defaultNow(),
+    sent: integer('sent').notNull().default(0),
+  },
+  (t) => [primaryKey({ columns: [t.collectionId, t.night] })],
+);
