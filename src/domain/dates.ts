@@ -46,7 +46,26 @@ function civilFromDays(z0: number): [number, number, number] {
   return [yoe + era * 400 + (m <= 2 ? 1 : 0), m, d];
 }
 
+/*
+ * The engine turns the same few thousand date strings into day numbers many times over (every
+ * fit, comparison and interval reads them), so parsed values are remembered. Bounded: the map
+ * starts afresh when full, which only costs re-parsing.
+ */
+const PARSE_MEMO_LIMIT = 100_000;
+const parseMemo = new Map<string, number | null>();
+
 function parse(date: string): number | null {
+  const known = parseMemo.get(date);
+  if (known !== undefined) return known;
+  const n = parseUncached(date);
+  if (typeof date === 'string') {
+    if (parseMemo.size >= PARSE_MEMO_LIMIT) parseMemo.clear();
+    parseMemo.set(date, n);
+  }
+  return n;
+}
+
+function parseUncached(date: string): number | null {
   if (typeof date !== 'string' || date.length !== 10 || date[4] !== '-' || date[7] !== '-') return null;
   const y = digits(date, 0, 4);
   const m = digits(date, 5, 7);

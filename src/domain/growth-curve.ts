@@ -276,7 +276,7 @@ function freeFit(t: number[], h: number[], shape: BorrowedShape, scaleOnlyA: num
   let best: ReturnType<typeof levenbergMarquardt> | null = null;
   let rejected = 'free fit did not converge';
   for (const p0 of starts) {
-    const r = levenbergMarquardt(LOGISTIC_MODEL, t, h, p0, { maxIterations: 300, stepTolerance: 1e-9 });
+    const r = levenbergMarquardt(LOGISTIC_MODEL, t, h, p0, { maxIterations: 300, stepTolerance: 1e-9, sseTolerance: 1e-10 });
     if (!r.converged || !r.standardErrors) continue;
     const problem = implausibility(r, maxH, tMax);
     if (problem) {
