@@ -12,6 +12,8 @@ export DEV_ORIGINS="http://127.0.0.1:8081,http://localhost:8081"
 export SEED_DEMO=1
 # Invitations and reset links land in the fake mailbox at http://127.0.0.1:8790/dev/mailbox.
 export MAIL_FAKE=1
+# Night forecasts come from the local fake forecast service unless WEATHER_URL names a real one.
+if [ -z "${WEATHER_URL:-}" ]; then export WEATHER_FAKE=1; fi
 PORT=8790 tsx watch server/index.ts &
 api=$!
 trap 'kill $api 2>/dev/null || true' EXIT

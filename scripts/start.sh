@@ -17,5 +17,7 @@ export PORT=${PORT:-8790}
 export HOST=${HOST:-127.0.0.1}
 # Mail goes to a local fake SMTP server and is read at /dev/mailbox, unless real SMTP is configured.
 if [ -z "${SMTP_HOST:-}" ]; then export MAIL_FAKE=1; fi
+# Night forecasts come from a local fake forecast service (invented values), unless WEATHER_URL names a real one.
+if [ -z "${WEATHER_URL:-}" ]; then export WEATHER_FAKE=1; fi
 echo "[start] Sympodia will be at http://$HOST:$PORT (Ctrl-C stops it; npm run db:stop stops PostgreSQL)"
 exec tsx server/index.ts

@@ -27,10 +27,16 @@ import { photoRoutes } from './routes/photos';
 import { localDiskStore, type PhotoStore } from './photos/store';
 import { digestRoutes, unsubscribeRoutes } from './routes/digest';
 import { invitationRoutes } from './routes/invitations';
+import { handoffRoutes } from './routes/handoffs';
 import { mailboxRoutes } from './routes/mailbox';
 import { passwordResetRoutes } from './routes/password-reset';
+import { importRoutes } from './routes/imports';
+import { exportRoutes } from './routes/export';
 import type { FakeSmtpServer } from './mail/fake-smtp';
 import type { Mailer } from './mail/mailer';
+import { coldNightRoutes, fakeWeatherRoutes } from './routes/cold-nights';
+import { NO_WEATHER, type WeatherClient } from './weather/client';
+import type { FakeWeatherServer } from './weather/fake-weather';
 
 export const JSON_BODY_LIMIT = '100kb';
 
@@ -50,6 +56,10 @@ export interface AppOptions {
   mailer?: Mailer;
   /** The local fake SMTP server; when given, /dev/mailbox lists what it received. */
   mailbox?: FakeSmtpServer;
+  /** Night forecasts for cold-night checks; without one, they say "forecast unavailable". */
+  weather?: WeatherClient;
+  /** The local fake forecast service; when given, /dev/weather switches its test modes. */
+  weatherFake?: FakeWeatherServer;
 }
 
 const NO_MAILER: Mailer = {
@@ -70,6 +80,7 @@ export function createApp(options: AppOptions): Express {
     fingerprints: new FingerprintMemo((collectionId) => engineFingerprint(options.db, collectionId)),
     mailer: options.mailer ?? NO_MAILER,
     photos: options.photoStore ?? localDiskStore(path.join(__dirname, '..', '.data', 'photos')),
+    weather: options.weather ?? NO_WEATHER,
   };
   const devOrigins = options.devOrigins ?? [];
 
@@ -150,12 +161,17 @@ export function createApp(options: AppOptions): Express {
   api.use(engineRoutes(ctx));
   api.use(photoRoutes(ctx));
   api.use(invitationRoutes(ctx));
+  api.use(handoffRoutes(ctx));
   api.use(passwordResetRoutes(ctx));
   api.use(digestRoutes(ctx));
+  api.use(importRoutes(ctx));
+  api.use(coldNightRoutes(ctx));
+  api.use(exportRoutes(ctx));
   api.use((req, _res, next) => next(new HttpError(404, 'no_route', `No API route ${req.method} ${req.path}`)));
   app.use('/api', api);
   app.use(unsubscribeRoutes(ctx));
   if (options.mailbox) app.use(mailboxRoutes(options.mailbox));
+  if (options.weatherFake) app.use(fakeWeatherRoutes(options.weatherFake, ctx.weather));
 
   if (options.webRoot) serveWebBuild(app, options.webRoot);
 

@@ -5,6 +5,7 @@ import type { Mailer } from './mail/mailer';
 import type { PhotoStore } from './photos/store';
 import type { RateLimits } from './middleware/rate-limit';
 import type { FingerprintMemo } from './services/engine-data';
+import type { WeatherClient } from './weather/client';
 
 /** Everything a route needs from the outside world; tests build it with their own parts. */
 export interface AppContext {
@@ -18,4 +19,6 @@ export interface AppContext {
   mailer: Mailer;
   /** Where photo files are kept: local disk or an S3-compatible store. */
   photos: PhotoStore;
+  /** Night minimum forecasts for cold-night checks; failures come back as "unavailable". */
+  weather: WeatherClient;
 }

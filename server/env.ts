@@ -40,12 +40,25 @@ const envSchema = z.object({
   S3_ACCESS_KEY_ID: z.string().optional(),
   S3_SECRET_ACCESS_KEY: z.string().optional(),
   S3_FORCE_PATH_STYLE: booleanFlag,
+  /** Seconds from start to this process's first weekly-digest check (then hourly); default 30. */
+  DIGEST_FIRST_CHECK_SECONDS: z.coerce.number().min(0).max(86_400).default(30),
+  /** Base URL of an Open-Meteo-shaped forecast API for cold nights, e.g. https://api.open-meteo.com. */
+  WEATHER_URL: z.url().optional(),
+  /** Run the local fake forecast service (start, dev and e2e); never with WEATHER_URL. */
+  WEATHER_FAKE: booleanFlag,
+  /** The fake forecast service's port; 0 takes a free one. */
+  WEATHER_FAKE_PORT: z.coerce.number().int().min(0).max(65535).default(0),
+  /** How long a forecast request may take before the lists say "forecast unavailable". */
+  WEATHER_TIMEOUT_MS: z.coerce.number().int().min(100).max(60_000).default(3000),
 }).superRefine((env, issues) => {
   if (env.PHOTO_STORE === 's3' && !env.S3_BUCKET) {
     issues.addIssue({ code: 'custom', path: ['S3_BUCKET'], message: 'PHOTO_STORE=s3 needs S3_BUCKET (and usually S3_ENDPOINT and keys)' });
   }
   if (env.MAIL_FAKE && env.SMTP_HOST) {
     issues.addIssue({ code: 'custom', path: ['MAIL_FAKE'], message: 'MAIL_FAKE=1 and SMTP_HOST cannot both be set: choose the fake mailbox or a real SMTP server' });
+  }
+  if (env.WEATHER_FAKE && env.WEATHER_URL) {
+    issues.addIssue({ code: 'custom', path: ['WEATHER_FAKE'], message: 'WEATHER_FAKE=1 and WEATHER_URL cannot both be set: choose the fake forecast or a real service' });
   }
   if (env.NODE_ENV === 'production' && !env.MAIL_FAKE && !env.SMTP_HOST) {
     issues.addIssue({ code: 'custom', path: ['SMTP_HOST'], message: 'Set SMTP_HOST (and PUBLIC_URL) to send mail, or MAIL_FAKE=1 for the local fake mailbox' });

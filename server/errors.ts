@@ -39,15 +39,46 @@ export function fieldIssues(error: ZodError, prefix?: string): FieldIssue[] {
   });
 }
 
-const DATABASE_DOWN_CODES = new Set(['ECONNREFUSED', 'CONNECT_TIMEOUT', 'ECONNRESET', 'CONNECTION_CLOSED', '57P01', '57P03']);
+/**
+ * Errors that mean the database cannot answer right now, not that the request was wrong:
+ * refused or dropped connections (the driver's own codes and Node's socket codes), PostgreSQL
+ * shutting down or starting up (57P01–57P03), out of connections (53300), connection failures
+ * (08xxx), and a statement stopped by statement_timeout or lock_timeout (57014, 55P03; see
+ * db/client.ts). All answer 503 `database_unavailable`.
+ */
+const DATABASE_DOWN_CODES = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EHOSTUNREACH',
+  'ENETUNREACH',
+  'ENOTFOUND',
+  'EAI_AGAIN',
+  'EPIPE',
+  'CONNECT_TIMEOUT',
+  'CONNECTION_CLOSED',
+  'CONNECTION_DESTROYED',
+  'CONNECTION_ENDED',
+  '57P01',
+  '57P02',
+  '57P03',
+  '53300',
+  '08000',
+  '08001',
+  '08003',
+  '08004',
+  '08006',
+  '57014',
+  '55P03',
+]);
 
+/** Looks through the ORM's and the session library's wrappers (`cause`) for a database-down code. */
 function isDatabaseDown(error: unknown): boolean {
-  const code = (error as { code?: unknown } | null)?.code;
-  const cause = (error as { cause?: { code?: unknown } } | null)?.cause?.code;
-  return (
-    (typeof code === 'string' && DATABASE_DOWN_CODES.has(code)) ||
-    (typeof cause === 'string' && DATABASE_DOWN_CODES.has(cause))
-  );
+  for (let e: unknown = error, depth = 0; e && depth < 4; e = (e as { cause?: unknown }).cause, depth += 1) {
+    const code = (e as { code?: unknown }).code;
+    if (typeof code === 'string' && DATABASE_DOWN_CODES.has(code)) return true;
+  }
+  return false;
 }
 
 /** The PostgreSQL error code, whether the driver's error arrives bare or wrapped by the ORM. */
@@ -80,6 +111,11 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     }
     if (error instanceof ZodError) {
       res.status(400).json(body('invalid_input', 'Some fields need attention', fieldIssues(error)));
+      return;
+    }
+    if (error instanceof URIError) {
+      // The router could not percent-decode a path parameter ("%zz", "%ED%A0%80").
+      res.status(400).json(body('malformed_path', 'The address is not valid', [{ field: 'path', reason: 'not valid percent-encoding' }]));
       return;
     }
     const type = (error as { type?: string }).type;

@@ -10,3 +10,6 @@ export const DEMO_ACCOUNTS: ReadonlyArray<{ email: string; displayName: string; 
   { email: 'grower@demo.test', displayName: 'Tomas Okafor', role: 'grower' },
   { email: 'viewer@demo.test', displayName: 'Priya Lindqvist', role: 'viewer' },
 ];
+
+/** The demo collection's location for the night forecast (invented; decimal degrees). */
+export const DEMO_LOCATION = { latitude: 26.1, longitude: -80.3 } as const;

@@ -1,9 +1,9 @@
-import { sql } from 'drizzle-orm';
+import { and, eq, inArray, sql } from 'drizzle-orm';
 import { generateIdFromEntropySize } from 'lucia';
 import { hashPassword } from '../../server/auth';
 import type { Database } from '../client';
-import { collections, memberships, users } from '../schema';
-import { DEMO_ACCOUNTS, DEMO_COLLECTION_NAME, DEMO_PASSWORD } from './demo-accounts';
+import { collections, memberships, plants, users } from '../schema';
+import { DEMO_ACCOUNTS, DEMO_COLLECTION_NAME, DEMO_LOCATION, DEMO_PASSWORD } from './demo-accounts';
 import { DEMO_SEED, generateCollection } from './generate';
 import { insertGenerated } from './insert';
 
@@ -32,7 +32,8 @@ export async function seedDemo(
   const generated = await db.transaction(async (tx) => {
     const [collection] = await tx
       .insert(collections)
-      .values({ name: DEMO_COLLECTION_NAME, seasonStartMonth: 3, units: 'mm' })
+      // An invented spot in the subtropics where Cattleyas summer outdoors and winter fronts bring cold nights.
+      .values({ name: DEMO_COLLECTION_NAME, seasonStartMonth: 3, units: 'mm', latitude: DEMO_LOCATION.latitude, longitude: DEMO_LOCATION.longitude })
       .returning({ id: collections.id });
     const idsByRole = new Map<string, string>();
     for (const account of DEMO_ACCOUNTS) {
@@ -46,6 +47,15 @@ export async function seedDemo(
       createdBy: idsByRole.get('grower') ?? null,
       plantsCreatedBy: idsByRole.get('owner') ?? null,
     });
+    // The demo grower's own night limit for the Cattleya-type plants on the sheltered shade-house
+    // bench: brought in only near 10 °C, as many growers do (the genus default is 13 °C).
+    const shadeHouse = generated.areas.find((a) => a.name === 'Shade-house bench');
+    if (shadeHouse) {
+      await tx
+        .update(plants)
+        .set({ minNightTempC: 10 })
+        .where(and(eq(plants.collectionId, collection.id), eq(plants.areaId, shadeHouse.id), inArray(plants.genus, ['C.', 'Lc.', 'Rlc.', 'Ctt.', 'Gur.'])));
+    }
     return generated;
   });
   log(

@@ -11,6 +11,8 @@ import { localDiskStore } from '../../server/photos/store';
 import { startFakeSmtp } from '../../server/mail/fake-smtp';
 import { createSmtpMailer } from '../../server/mail/mailer';
 import { createRateLimits } from '../../server/middleware/rate-limit';
+import { createWeatherClient } from '../../server/weather/client';
+import { startFakeWeather } from '../../server/weather/fake-weather';
 import { E2E_DATABASE, E2E_PORT, E2E_WEB_ROOT } from './constants';
 
 /**
@@ -35,6 +37,11 @@ async function main() {
   const mailbox = await startFakeSmtp(0);
   const mailer = createSmtpMailer({ host: mailbox.host, port: mailbox.port, secure: false, from: 'Sympodia <no-reply@sympodia.invalid>', publicUrl: `http://127.0.0.1:${E2E_PORT}` });
 
+  // Night forecasts come from the fake forecast service on a free loopback port (or WEATHER_URL);
+  // the specs switch its test modes at /dev/weather.
+  const weatherFake = process.env.WEATHER_URL ? undefined : await startFakeWeather();
+  const weather = createWeatherClient({ baseUrl: process.env.WEATHER_URL ?? weatherFake!.url, timeoutMs: 2000 });
+
   // Photos go to a throwaway folder, removed when the server stops.
   const photoDir = fs.mkdtempSync(path.join(os.tmpdir(), 'sympodia-e2e-photos-'));
 
@@ -44,6 +51,8 @@ async function main() {
     photoStore: localDiskStore(photoDir),
     mailer,
     mailbox,
+    weather,
+    weatherFake,
     webRoot: path.resolve(__dirname, '..', '..', E2E_WEB_ROOT),
     // The suite signs in dozens of times from one address; the limits themselves are
     // tested against the API (tests/api/auth.test.ts).
@@ -53,6 +62,7 @@ async function main() {
   const stop = () =>
     server.close(() => {
       fs.rmSync(photoDir, { recursive: true, force: true });
+      void weatherFake?.close();
       void database.close().then(() => process.exit(0));
     });
   process.on('SIGTERM', stop);

@@ -74,6 +74,13 @@ export function authRoutes(ctx: AppContext): Router {
     res.status(204).end();
   });
 
+  /** Ends every session of this account (other browsers and phones included), then this one's cookie. */
+  router.post('/auth/sign-out-everywhere', requireUser, async (req, res) => {
+    await auth.invalidateUserSessions(res.locals.user!.id);
+    setSessionCookie(auth, req, res, null);
+    res.status(204).end();
+  });
+
   // Public: answers 200 either way, so a signed-out browser sees no failed request.
   router.get('/session', async (_req, res) => {
     res.json({ me: res.locals.user ? await me(res.locals.user) : null });

@@ -105,6 +105,7 @@ function shapesOf(p: EnginePlant, today: IsoDate, shapes?: ShapeCache): (season:
 export function currentForecasts(data: EngineData, today: IsoDate, shapeCache?: ShapeCache): Array<{ p: EnginePlant; h: BloomHistory; f: LeadForecast }> {
   const out: Array<{ p: EnginePlant; h: BloomHistory; f: LeadForecast }> = [];
   for (const p of data.plants) {
+    if (!p.active) continue;
     const shapes = shapesOf(p, today, shapeCache);
     for (const h of currentLeads(p, today)) {
       const f = forecastLead({ plant: p.plant, leads: p.leads, leadId: h.lead.id, today, priorShapes: shapes(h.lead.season) });
@@ -326,7 +327,7 @@ function attentionSeason(p: EnginePlant, date: IsoDate): number | null {
  */
 export function attentionItems(data: EngineData, date: IsoDate, shapeCache?: ShapeCache): AttentionListResponse['items'] {
   return attentionList(
-    data.plants.map((p) => {
+    data.plants.filter((p) => p.active).map((p) => {
       const season = shapeCache ? attentionSeason(p, date) : null;
       return { plant: p.plant, leads: p.leads, priorShapes: season === null ? undefined : shapeCache!.get(p, season, date) };
     }),

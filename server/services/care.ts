@@ -8,7 +8,7 @@ import { fieldError, HttpError, notFound } from '../errors';
 import { assertAreaInCollection, findArea } from './areas';
 import { requirePlant } from './plants';
 import { toCare } from './records-read';
-import { assertNotFuture } from './records-support';
+import { assertNotFuture, assertWritablePlant, refuseHistoryOnly } from './records-support';
 
 type Member = { collectionId: string; userId: string; role: Role };
 type CareInput = z.infer<typeof careInputSchema>;
@@ -39,7 +39,7 @@ export async function addCare(
   input: CareInput,
 ): Promise<CareEntry> {
   const { collectionId } = member;
-  if ('plantId' in subject) await requirePlant(db, collectionId, subject.plantId);
+  if ('plantId' in subject) refuseHistoryOnly(await requirePlant(db, collectionId, subject.plantId));
   else if (!(await findArea(db, collectionId, subject.areaId))) throw notFound('That area');
   assertNotFuture(input.occurredOn, 'occurredOn');
   if (input.kind === 'move') {
@@ -75,11 +75,12 @@ export async function addCare(
 /** An owner may delete any care entry; a grower only one they recorded. */
 export async function deleteCare(db: Database, member: Member, careId: string): Promise<void> {
   const [row] = await db
-    .select({ id: careEntries.id, createdBy: careEntries.createdBy })
+    .select({ id: careEntries.id, createdBy: careEntries.createdBy, plantId: careEntries.plantId })
     .from(careEntries)
     .where(and(eq(careEntries.id, careId), eq(careEntries.collectionId, member.collectionId)))
     .limit(1);
   if (!row) throw notFound('That care entry');
+  await assertWritablePlant(db, member.collectionId, row.plantId);
   if (member.role !== 'owner' && row.createdBy !== member.userId) {
     throw new HttpError(403, 'forbidden', 'A grower may delete only the care entries they recorded; ask an owner');
   }

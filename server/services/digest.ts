@@ -7,6 +7,9 @@ import { collections, digestRuns, digestSubscriptions, memberships, users } from
 import { escapeHtml, type Mailer } from '../mail/mailer';
 import { attentionItems, todayUtc } from '../routes/engine';
 import { loadCollectionEngineData } from '../services/engine-data';
+import type { ColdNights } from '@/shared/schemas/cold-nights';
+import type { WeatherClient } from '../weather/client';
+import { bringInLine, coldNightsFor, formatC } from './cold-nights';
 
 type DigestItem = AttentionListResponse['items'][number];
 
@@ -82,12 +85,41 @@ function describe(item: DigestItem): string {
   return `${item.plantTag}, lead ${item.leadLabel}: ${item.reason}${item.date ? ` (${item.date})` : ''}`;
 }
 
-export function digestMail(input: { collectionName: string; displayName: string; items: DigestItem[]; appUrl: string; unsubscribeUrl: string; today: string }) {
+const nightLabel = (cold: Extract<ColdNights, { status: 'ok' }>, date: string) => `${date === cold.nights[0]?.date ? 'Tonight' : 'Night of'} ${date}`;
+
+/** The digest's cold-night section as text lines: each night ahead with plants to bring in, or why the forecast is missing. */
+export function coldNightLines(cold: ColdNights | null | undefined): string[] {
+  if (!cold || cold.status === 'no_location') return [];
+  if (cold.status === 'unavailable') return ['', 'Cold nights:', `- Night forecast unavailable: ${cold.reason}.`];
+  const nights = cold.nights.filter((n) => n.plants.length > 0);
+  if (nights.length === 0) return [];
+  return [
+    '',
+    'Cold nights: plants to bring in:',
+    ...nights.flatMap((n) => [`- ${nightLabel(cold, n.date)}, forecast low ${formatC(n.lowC)}:`, ...n.plants.map((p) => `    - ${bringInLine(p)}`)]),
+  ];
+}
+
+function coldNightHtml(cold: ColdNights | null | undefined): string {
+  if (!cold || cold.status === 'no_location') return '';
+  if (cold.status === 'unavailable') return `<h3>Cold nights</h3>\n<p>Night forecast unavailable: ${escapeHtml(cold.reason)}.</p>\n`;
+  const nights = cold.nights.filter((n) => n.plants.length > 0);
+  if (nights.length === 0) return '';
+  return `<h3>Cold nights: plants to bring in</h3>\n<ul>\n${nights
+    .map((n) => `<li>${escapeHtml(`${nightLabel(cold, n.date)}, forecast low ${formatC(n.lowC)}:`)}\n<ul>${n.plants.map((p) => `<li>${escapeHtml(bringInLine(p))}</li>`).join('')}</ul></li>`)
+    .join('\n')}\n</ul>\n`;
+}
+
+/** Whether the cold-night section alone is worth a digest (plants to bring in on some night ahead). */
+const hasBringIn = (cold: ColdNights | null | undefined) => cold?.status === 'ok' && cold.nights.some((n) => n.plants.length > 0);
+
+export function digestMail(input: { collectionName: string; displayName: string; items: DigestItem[]; appUrl: string; unsubscribeUrl: string; today: string; coldNights?: ColdNights | null }) {
   const kinds = [...DIGEST_KINDS].filter((kind) => input.items.some((i) => i.kind === kind));
   const text = [
     `Hello ${input.displayName},`,
     '',
-    `This week in ${input.collectionName} (as of ${input.today}), ${input.items.length} lead${input.items.length === 1 ? '' : 's'} need a look:`,
+    `This week in ${input.collectionName} (as of ${input.today}), ${input.items.length} lead${input.items.length === 1 ? '' : 's'} need a look${input.items.length === 0 ? '' : ':'}`,
+    ...coldNightLines(input.coldNights),
     ...kinds.flatMap((kind) => ['', `${SECTION_TITLES[kind]}:`, ...input.items.filter((i) => i.kind === kind).map((i) => `- ${describe(i)}`)]),
     '',
     `Open Sympodia: ${input.appUrl}`,
@@ -95,7 +127,8 @@ export function digestMail(input: { collectionName: string; displayName: string;
     `Stop these weekly mails for this collection: ${input.unsubscribeUrl}`,
   ].join('\n');
   const html = `<p>Hello ${escapeHtml(input.displayName)},</p>
-<p>This week in <strong>${escapeHtml(input.collectionName)}</strong> (as of ${escapeHtml(input.today)}), ${input.items.length} lead${input.items.length === 1 ? '' : 's'} need a look:</p>
+<p>This week in <strong>${escapeHtml(input.collectionName)}</strong> (as of ${escapeHtml(input.today)}), ${input.items.length} lead${input.items.length === 1 ? '' : 's'} need a look${input.items.length === 0 ? '' : ':'}</p>
+${coldNightHtml(input.coldNights)}
 ${kinds
   .map(
     (kind) =>
@@ -107,13 +140,19 @@ ${kinds
   .join('\n')}
 <p><a href="${escapeHtml(input.appUrl)}">Open Sympodia</a></p>
 <p><a href="${escapeHtml(input.unsubscribeUrl)}">Stop these weekly mails for this collection</a></p>`;
-  return { subject: `Sympodia: ${input.items.length} lead${input.items.length === 1 ? '' : 's'} to look at in ${input.collectionName}`, text, html };
+  const subject =
+    input.items.length === 0 && hasBringIn(input.coldNights)
+      ? `Sympodia: cold nights ahead for ${input.collectionName}`
+      : `Sympodia: ${input.items.length} lead${input.items.length === 1 ? '' : 's'} to look at in ${input.collectionName}`;
+  return { subject, text, html };
 }
 
 export interface DigestContext {
   db: Database;
   mailer: Mailer;
   logger?: Logger;
+  /** Night forecasts for the cold-night section; without one the digest has none. */
+  weather?: WeatherClient;
 }
 
 /**
@@ -142,12 +181,13 @@ export async function runDigest(ctx: DigestContext, options: { now?: Date; runne
       const wanting = members.filter((m) => m.optedOut !== true);
       if (wanting.length === 0) continue;
       const items = await digestItems(ctx.db, collection.id, today);
-      if (items.length === 0) continue;
+      const coldNights = ctx.weather ? await coldNightsFor(ctx.db, ctx.weather, collection.id) : null;
+      if (items.length === 0 && !hasBringIn(coldNights)) continue;
       for (const member of wanting) {
         const { optedOut, unsubscribeKey } = await subscriptionFor(ctx.db, collection.id, member.userId);
         if (optedOut) continue;
         const unsubscribeUrl = `${ctx.mailer.publicUrl}/digest/unsubscribe/${unsubscribeKey}`;
-        const mail = digestMail({ collectionName: collection.name, displayName: member.displayName, items, appUrl: `${ctx.mailer.publicUrl}/`, unsubscribeUrl, today });
+        const mail = digestMail({ collectionName: collection.name, displayName: member.displayName, items, appUrl: `${ctx.mailer.publicUrl}/`, unsubscribeUrl, today, coldNights });
         await ctx.mailer.send({
           to: member.email,
           ...mail,
@@ -166,16 +206,20 @@ export async function runDigest(ctx: DigestContext, options: { now?: Date; runne
 /** How often each server process checks whether this week's digest is still to be sent. */
 export const DIGEST_CHECK_INTERVAL_MS = 60 * 60 * 1000;
 
+/** The first check after a process starts (DIGEST_FIRST_CHECK_SECONDS overrides it). */
+export const DIGEST_FIRST_CHECK_MS = 30_000;
+
 /** Checks hourly (and once shortly after start); the first process to claim a new week sends it. */
-export function startDigestScheduler(ctx: DigestContext, intervalMs = DIGEST_CHECK_INTERVAL_MS): () => void {
+export function startDigestScheduler(ctx: DigestContext, intervalMs = DIGEST_CHECK_INTERVAL_MS, firstCheckMs = DIGEST_FIRST_CHECK_MS): () => void {
   const tick = () => {
     runDigest(ctx)
       .then((result) => {
         if (result.claimed) ctx.logger?.info(result, 'weekly digest sent');
+        else ctx.logger?.info({ period: result.period }, 'weekly digest already claimed by another run');
       })
       .catch((error: unknown) => ctx.logger?.error({ err: error }, 'weekly digest run failed'));
   };
-  const first = setTimeout(tick, 30_000);
+  const first = setTimeout(tick, firstCheckMs);
   const timer = setInterval(tick, intervalMs);
   // The checks must not keep a stopping process alive.
   for (const handle of [first, timer]) (handle as unknown as { unref?: () => void }).unref?.();

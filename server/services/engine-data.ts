@@ -12,7 +12,8 @@ import type { Executor } from './records-support';
 
 // The columns the engine reads. Generated demo rows (db/seed/generate.ts) have the same shape,
 // so the benchmark maps them through the same functions.
-export type PlantRow = Pick<typeof plants.$inferSelect, 'id' | 'tag' | 'genus' | 'parentPlantId' | 'dividedOn' | 'medium' | 'areaId'>;
+export type PlantRow = Pick<typeof plants.$inferSelect, 'id' | 'tag' | 'genus' | 'parentPlantId' | 'dividedOn' | 'medium' | 'areaId'> &
+  Partial<Pick<typeof plants.$inferSelect, 'historyOnly' | 'givenAwayOn' | 'minNightTempC'>>;
 export type LeadRow = Pick<typeof leads.$inferSelect, 'id' | 'plantId' | 'season' | 'label' | 'firstSeen' | 'status' | 'parentLeadId' | 'fromBackBulb'>;
 export type MeasurementRow = Pick<
   typeof measurements.$inferSelect,
@@ -37,6 +38,11 @@ export interface EnginePlant {
    * seen before the division: a division keeps its parent's history. Oldest first.
    */
   leads: BloomHistory[];
+  /**
+   * False for a read-only history copy and for a plant given away: they still lend their
+   * history to divisions, but need no attention, measuring or bringing in.
+   */
+  active: boolean;
 }
 
 export interface EngineData {
@@ -53,8 +59,8 @@ export const toDomainPlant = (r: PlantRow): Plant => ({
   dividedOn: r.dividedOn,
   medium: r.medium,
   areaId: r.areaId,
-  // No per-plant override is stored yet; the genus default applies.
-  minNightTempC: null,
+  // The grower's own limit; null (or a generated row without one) uses the genus default.
+  minNightTempC: r.minNightTempC ?? null,
 });
 
 export const toDomainLead = (r: LeadRow): Lead => ({
@@ -138,7 +144,7 @@ export function buildEngineData(rows: EngineRows): EngineData {
       parent = rowById.get(parent.parentPlantId);
     }
     const leadsWithHistory = inherited.length ? [...inherited, ...ownLeads].sort(byLeadOrder) : ownLeads;
-    return { plant: toDomainPlant(p), tag: p.tag, ownLeads, leads: leadsWithHistory };
+    return { plant: toDomainPlant(p), tag: p.tag, ownLeads, leads: leadsWithHistory, active: !p.historyOnly && !p.givenAwayOn };
   });
   return { plants: plantsOut, plantById: new Map(plantsOut.map((p) => [p.plant.id, p])), leadById };
 }
@@ -151,6 +157,9 @@ const plantColumns = {
   dividedOn: plants.dividedOn,
   medium: plants.medium,
   areaId: plants.areaId,
+  historyOnly: plants.historyOnly,
+  givenAwayOn: plants.givenAwayOn,
+  minNightTempC: plants.minNightTempC,
 };
 const leadColumns = {
   id: leads.id,

@@ -6,7 +6,7 @@ import { bloomRecords, leads, measurements, plants } from '../../db/schema';
 import { fieldError, notFound, StaleError } from '../errors';
 import { requirePlant } from './plants';
 import { toBloom, toLead, toMeasurement, toPlantRef } from './records-read';
-import { assertNotFuture, duplicate, type Executor, withDuplicateAs } from './records-support';
+import { assertNotFuture, assertWritablePlant, duplicate, type Executor, refuseHistoryOnly, withDuplicateAs } from './records-support';
 
 type LeadChanges = Partial<Omit<z.infer<typeof updateLeadInputSchema>, 'version'>>;
 
@@ -46,7 +46,7 @@ async function assertParentLead(db: Executor, plantId: string, parentLeadId: str
 }
 
 export async function createLead(db: Database, collectionId: string, plantId: string, input: z.infer<typeof leadInputSchema>): Promise<Lead> {
-  await requirePlant(db, collectionId, plantId);
+  refuseHistoryOnly(await requirePlant(db, collectionId, plantId));
   assertNotFuture(input.firstSeen, 'firstSeen');
   if (input.parentLeadId) await assertParentLead(db, plantId, input.parentLeadId);
   const [row] = await withDuplicateAs(
@@ -86,6 +86,7 @@ async function earliestRecordOn(db: Executor, leadId: string): Promise<string | 
 
 export async function updateLead(db: Database, collectionId: string, leadId: string, version: number, changes: LeadChanges): Promise<Lead> {
   const current = await requireLead(db, collectionId, leadId);
+  await assertWritablePlant(db, collectionId, current.plantId);
   if (changes.firstSeen !== undefined) {
     assertNotFuture(changes.firstSeen, 'firstSeen');
     const earliest = await earliestRecordOn(db, leadId);
@@ -111,6 +112,7 @@ export async function updateLead(db: Database, collectionId: string, leadId: str
 }
 
 export async function deleteLead(db: Database, collectionId: string, leadId: string): Promise<void> {
+  await assertWritablePlant(db, collectionId, (await findLead(db, collectionId, leadId))?.plantId);
   const deleted = await db
     .delete(leads)
     .where(and(eq(leads.id, leadId), eq(leads.collectionId, collectionId)))

@@ -14,7 +14,7 @@ import { bloomRecords, leads, measurements } from '../../db/schema';
 import { fieldError, HttpError, notFound, StaleError } from '../errors';
 import { requireLead } from './leads';
 import { latestMeasurementOrder, toBloom, toMeasurement } from './records-read';
-import { assertNotBeforeFirstSeen, assertNotFuture, type Executor } from './records-support';
+import { assertNotBeforeFirstSeen, assertNotFuture, assertWritablePlant, type Executor } from './records-support';
 
 type MeasurementInput = z.infer<typeof measurementInputSchema>;
 type MeasurementChanges = Partial<Omit<z.infer<typeof updateMeasurementInputSchema>, 'version'>>;
@@ -73,6 +73,7 @@ async function insertOnce(
 
 export async function recordMeasurement(db: Database, member: Member, leadId: string, input: MeasurementInput): Promise<Recorded> {
   const lead = await requireLead(db, member.collectionId, leadId);
+  await assertWritablePlant(db, member.collectionId, lead.plantId);
   if (input.clientKey) {
     const stored = await byClientKey(db, member.collectionId, lead.id, input.clientKey);
     if (stored) return stored;
@@ -89,6 +90,7 @@ export async function recordMeasurement(db: Database, member: Member, leadId: st
  */
 export async function markSheath(db: Database, member: Member, leadId: string, input: z.infer<typeof sheathMarkInputSchema>): Promise<Recorded> {
   const lead = await requireLead(db, member.collectionId, leadId);
+  await assertWritablePlant(db, member.collectionId, lead.plantId);
   if (input.clientKey) {
     const stored = await byClientKey(db, member.collectionId, lead.id, input.clientKey);
     if (stored) return stored;
@@ -117,7 +119,7 @@ export async function markSheath(db: Database, member: Member, leadId: string, i
 
 async function findMeasurement(db: Executor, collectionId: string, measurementId: string) {
   const [row] = await db
-    .select({ measurement: measurements, firstSeen: leads.firstSeen })
+    .select({ measurement: measurements, firstSeen: leads.firstSeen, plantId: leads.plantId })
     .from(measurements)
     .innerJoin(leads, eq(leads.id, measurements.leadId))
     .where(and(eq(measurements.id, measurementId), eq(measurements.collectionId, collectionId)))
@@ -133,7 +135,8 @@ export async function updateMeasurement(
   version: number,
   changes: MeasurementChanges,
 ): Promise<Measurement> {
-  const { firstSeen } = await findMeasurement(db, collectionId, measurementId);
+  const { firstSeen, plantId } = await findMeasurement(db, collectionId, measurementId);
+  await assertWritablePlant(db, collectionId, plantId);
   const { date, ...rest } = changes;
   if (date !== undefined) assertMeasurementDate(date, firstSeen);
   const [row] = await db
@@ -147,7 +150,8 @@ export async function updateMeasurement(
 
 /** An owner may delete any measurement; a grower only one they recorded. */
 export async function deleteMeasurement(db: Database, member: Member, measurementId: string): Promise<void> {
-  const { measurement } = await findMeasurement(db, member.collectionId, measurementId);
+  const { measurement, plantId } = await findMeasurement(db, member.collectionId, measurementId);
+  await assertWritablePlant(db, member.collectionId, plantId);
   if (member.role !== 'owner' && measurement.createdBy !== member.userId) {
     throw new HttpError(403, 'forbidden', 'A grower may delete only the measurements they recorded; ask an owner');
   }
@@ -169,6 +173,7 @@ export async function putBloom(
   input: z.infer<typeof bloomInputSchema>,
 ): Promise<{ bloom: BloomRecord; created: boolean }> {
   const lead = await requireLead(db, collectionId, leadId);
+  await assertWritablePlant(db, collectionId, lead.plantId);
   for (const field of BLOOM_DATES) {
     assertNotFuture(input[field], field);
     assertNotBeforeFirstSeen(input[field], lead.firstSeen, field);

@@ -9,7 +9,7 @@ import type { ProcessedPhoto } from '../photos/process';
 import type { PhotoStore } from '../photos/store';
 import { requireLead } from './leads';
 import { requirePlant } from './plants';
-import { assertNotFuture } from './records-support';
+import { assertNotFuture, assertWritablePlant } from './records-support';
 
 type Member = { collectionId: string; userId: string; role: Role };
 type PhotoRow = typeof photos.$inferSelect;
@@ -74,6 +74,7 @@ export async function addPhoto(
   const { collectionId } = member;
   assertNotFuture(fields.takenOn, 'takenOn');
   const target = await resolveTarget(db, collectionId, fields);
+  await assertWritablePlant(db, collectionId, target.plantId);
   const id = randomUUID();
   const storageKey = `${collectionId}/${id}`;
   const keys = [photoKey(storageKey, 'display'), photoKey(storageKey, 'thumb')];
@@ -143,6 +144,7 @@ export async function readPhotoFile(db: Database, store: PhotoStore, collectionI
 /** An owner may delete any photo; a grower only one they uploaded. The row goes first, then the files. */
 export async function deletePhoto(db: Database, store: PhotoStore, member: Member, photoId: string): Promise<void> {
   const row = await requirePhoto(db, member.collectionId, photoId);
+  await assertWritablePlant(db, member.collectionId, row.plantId);
   if (member.role !== 'owner' && row.uploadedBy !== member.userId) {
     throw new HttpError(403, 'forbidden', 'Only the owner or the person who added this photo can delete it');
   }

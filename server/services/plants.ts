@@ -15,7 +15,7 @@ import { areas, careEntries, leads, photos, plants } from '../../db/schema';
 import { fieldError, notFound, StaleError } from '../errors';
 import { assertAreaInCollection } from './areas';
 import { leadSummariesByPlant, toCare, toPlant, toPlantRef } from './records-read';
-import { assertNotFuture, duplicate, type Executor, withDuplicateAs } from './records-support';
+import { assertNotFuture, assertWritablePlant, duplicate, type Executor, refuseHistoryOnly, withDuplicateAs } from './records-support';
 
 type PlantInput = z.infer<typeof plantInputSchema>;
 type PlantChanges = Partial<Omit<z.infer<typeof updatePlantInputSchema>, 'version'>>;
@@ -163,6 +163,7 @@ export async function plantDetail(db: Database, collectionId: string, plantId: s
 /** Version-checked update: `UPDATE … WHERE version = $v`, so two saves of one copy cannot both land. */
 export async function updatePlant(db: Database, collectionId: string, plantId: string, version: number, changes: PlantChanges): Promise<Plant> {
   assertNotFuture(changes.acquiredOn, 'acquiredOn');
+  await assertWritablePlant(db, collectionId, plantId);
   await assertAreaInCollection(db, collectionId, changes.areaId, 'areaId');
   const [row] = await withDuplicateAs(
     () =>
@@ -179,6 +180,7 @@ export async function updatePlant(db: Database, collectionId: string, plantId: s
 
 /** Leads, measurements, bloom records and care entries go with the plant; divisions keep theirs. */
 export async function deletePlant(db: Database, collectionId: string, plantId: string): Promise<void> {
+  await assertWritablePlant(db, collectionId, plantId);
   const deleted = await db
     .delete(plants)
     .where(and(eq(plants.id, plantId), eq(plants.collectionId, collectionId)))
@@ -218,6 +220,7 @@ export async function dividePlant(
       .where(and(eq(plants.id, parentId), eq(plants.collectionId, collectionId)))
       .for('update');
     if (!parent) throw notFound('That plant');
+    refuseHistoryOnly(parent);
     const wanted = [...claimed.keys()];
     const own = wanted.length
       ? await tx

@@ -30,6 +30,11 @@ export const toPlant = (r: typeof plants.$inferSelect): Plant => ({
   notes: r.notes,
   parentPlantId: r.parentPlantId,
   dividedOn: r.dividedOn,
+  minNightTempC: r.minNightTempC,
+  historyOnly: r.historyOnly,
+  givenAwayOn: r.givenAwayOn,
+  givenTo: r.givenTo,
+  receivedFrom: r.receivedFrom,
   version: r.version,
 });
 
@@ -41,6 +46,7 @@ export const toPlantRef = (r: typeof plants.$inferSelect): PlantRef => ({
   isSpecies: r.isSpecies,
   clonalName: r.clonalName,
   dividedOn: r.dividedOn,
+  historyOnly: r.historyOnly,
 });
 
 export const toLead = (r: typeof leads.$inferSelect): Lead => ({

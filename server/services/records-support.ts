@@ -1,6 +1,8 @@
+import { and, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { FUTURE_DATE_TOLERANCE_DAYS } from '@/shared/schemas/records';
 import type { Database } from '../../db/client';
+import { plants } from '../../db/schema';
 import { fieldError, HttpError, notFound } from '../errors';
 
 /** The database or an open transaction: services take either. */
@@ -72,4 +74,28 @@ export function sentFields<T extends Record<string, unknown>>(parsed: T, raw: un
   for (const key of sent) if (key !== 'version' && key in parsed) out[key] = parsed[key];
   if (Object.keys(out).length === 0) throw fieldError('body', 'Send at least one field to change');
   return out as Partial<Omit<T, 'version'>>;
+}
+
+/** The answer to any write to a history-only plant or to anything that hangs off it. */
+export const readOnlyCopy = () =>
+  new HttpError(409, 'read_only', "This plant is a read-only copy of another grower's record, brought in with a division; it cannot be changed");
+
+/** Refuses a write to a plant row already read (a history-only copy: 409). */
+export function refuseHistoryOnly(plant: { historyOnly: boolean } | undefined): void {
+  if (plant?.historyOnly) throw readOnlyCopy();
+}
+
+/**
+ * Refuses a write to a history-only plant of the collection or to its leads, measurements,
+ * bloom records, care entries or photos (409). A plant not in the collection is left to the
+ * caller's own not-found check.
+ */
+export async function assertWritablePlant(db: Executor, collectionId: string, plantId: string | null | undefined): Promise<void> {
+  if (!plantId) return;
+  const [row] = await db
+    .select({ historyOnly: plants.historyOnly })
+    .from(plants)
+    .where(and(eq(plants.id, plantId), eq(plants.collectionId, collectionId)))
+    .limit(1);
+  refuseHistoryOnly(row);
 }

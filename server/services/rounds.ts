@@ -1,4 +1,4 @@
-import { and, asc, eq, inArray, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
 import type { RoundStop } from '@/shared/schemas/records';
 import type { Database } from '../../db/client';
 import { areas, plants } from '../../db/schema';
@@ -14,7 +14,8 @@ export async function getRounds(db: Database, collectionId: string): Promise<{ s
     .select({ plant: plants, areaName: areas.name })
     .from(plants)
     .leftJoin(areas, eq(areas.id, plants.areaId))
-    .where(eq(plants.collectionId, collectionId))
+    // A read-only history copy and a plant given away are not on the walk.
+    .where(and(eq(plants.collectionId, collectionId), eq(plants.historyOnly, false), isNull(plants.givenAwayOn)))
     .orderBy(
       sql`${plants.roundPosition} asc nulls last`,
       sql`${areas.position} asc nulls last`,

@@ -55,8 +55,9 @@ export interface GenusDefaults {
  * - Buds to open: about 2–4 weeks for standard hybrids; time in the sheath before buds show
  *   varies from weeks to six months or more — common practice (from memory), REFERENCES.md.
  * - Flowers last about 4–6 weeks — common practice.
- * - Bring in at about 10 °C (50 °F) — common practice; the AOS Cattleya culture sheet gives
- *   nights of 13–16 °C (55–60 °F) as ideal.
+ * - Minimum night 13 °C (55 °F): the low end of the 13–16 °C (55–60 °F) nights the American
+ *   Orchid Society's Cattleya culture sheet gives (REFERENCES.md). Many growers bring them
+ *   in only near 10 °C (50 °F) — common practice; such a grower sets that as a plant's own limit.
  * - Many hybrids flower from green sheaths in summer and autumn, winter and spring bloomers
  *   often from dry sheaths — orchid society culture notes (REFERENCES.md), hence 'either'.
  */
@@ -75,7 +76,7 @@ export const CATTLEYA_DEFAULTS: GenusDefaults = {
   openToFaded: { medianDays: 35, logSd: 0.25 },
   flowersPerSpike: 3,
   bloomRate: 0.8,
-  minNightTempC: 10,
+  minNightTempC: 13,
 };
 
 /** Rhyncholaeliocattleya: as Cattleya (common practice; the hybrids grow alike). */

@@ -28,6 +28,7 @@ const BODIES: Record<string, unknown> = {
   'POST /api/collections/:collectionId/plants/:plantId/divide': { dividedOn: today, pieces: [{ tag: 'Piece' }] },
   'POST /api/collections/:collectionId/plants/:plantId/leads': { season: 2026, label: 'New', firstSeen: today },
   'POST /api/collections/:collectionId/plants/:plantId/care': { kind: 'water', occurredOn: today },
+  'POST /api/collections/:collectionId/plants/:plantId/handoffs': { email: 'next-keeper@example.test' },
   'PATCH /api/collections/:collectionId/leads/:leadId': { version: 1, status: 'rotted' },
   'POST /api/collections/:collectionId/leads/:leadId/measurements': { date: today, heightMm: 10 },
   'POST /api/collections/:collectionId/leads/:leadId/sheath': { date: today, sheath: 'budded' },

@@ -16,6 +16,7 @@ import {
   daysAgo,
 } from '../factories/records';
 import { insertInvitation } from '../factories/mail';
+import { insertHandoff } from '../factories/handoffs';
 import { buildCollectionWithMembers, buildSignUp } from '../factories/users';
 import { testDb } from './support/database';
 import { registeredRoutes } from './support/routes';
@@ -50,6 +51,7 @@ const MATRIX: Record<string, Entry> = {
   'POST /api/auth/sign-up': { expected: PUBLIC(201), body: () => buildSignUp() },
   'POST /api/auth/sign-in': { expected: PUBLIC(401), body: () => ({ email: 'nobody@example.test', password: 'not-a-real-one' }) },
   'POST /api/auth/sign-out': { expected: SIGNED_IN(204) },
+  'POST /api/auth/sign-out-everywhere': { expected: SIGNED_IN(204) },
   'POST /api/collections': { expected: SIGNED_IN(201), body: () => ({ name: 'Windowsill' }) },
   'GET /api/collections/:collectionId': { expected: MEMBERS('viewer', 200) },
   'PATCH /api/collections/:collectionId': { expected: MEMBERS('owner', 200), body: () => ({ name: 'Renamed bench' }) },
@@ -103,12 +105,46 @@ const MATRIX: Record<string, Entry> = {
   'POST /api/auth/password-reset/complete': { expected: PUBLIC(400), body: () => ({ token: 'C'.repeat(43), password: 'pseudobulb-ladder-77' }) },
   'GET /api/collections/:collectionId/digest': { expected: MEMBERS('viewer', 200) },
   'PUT /api/collections/:collectionId/digest': { expected: MEMBERS('viewer', 200), body: () => ({ optedOut: true }) },
+  'GET /api/collections/:collectionId/cold-nights': { expected: MEMBERS('viewer', 200) },
   // Photos: members see them; growers add them (a JSON body carries no file: 400 once past the guard).
   'POST /api/collections/:collectionId/photos': { expected: MEMBERS('grower', 400), body: () => ({}) },
   'GET /api/collections/:collectionId/photos': { expected: MEMBERS('viewer', 200), query: '?leadId=:leadId' },
   'GET /api/collections/:collectionId/photos/:photoId/:size': { expected: MEMBERS('viewer', 200) },
   /** The fixture's photo was added by the grower, who may delete it. */
   'DELETE /api/collections/:collectionId/photos/:photoId': { expected: MEMBERS('grower', 204) },
+  // Import: growers and owners bring in spreadsheets; a JSON body is not a CSV file (415 once past the guard).
+  'POST /api/collections/:collectionId/imports/mapping': { expected: MEMBERS('grower', 200), body: () => ({ headers: ['Tag', 'Lead'] }) },
+  'POST /api/collections/:collectionId/imports/check': { expected: MEMBERS('grower', 415), body: () => ({}) },
+  'POST /api/collections/:collectionId/imports': { expected: MEMBERS('grower', 415), body: () => ({}) },
+  // Export: any member may take a copy; restore is the owner's, and the fixture's collection already has records (409).
+  'GET /api/collections/:collectionId/export.zip': { expected: MEMBERS('viewer', 200) },
+  'GET /api/collections/:collectionId/export.json': { expected: MEMBERS('viewer', 200) },
+  'POST /api/collections/:collectionId/restore': {
+    expected: MEMBERS('owner', 409),
+    body: () => ({
+      format: 'sympodia-export',
+      version: 1,
+      exportedAt: new Date().toISOString(),
+      collection: { name: 'Backup', seasonStartMonth: 3, units: 'mm' },
+      areas: [],
+      plants: [{ id: 'p1', tag: 'R-1', genus: 'C.', epithet: 'Quiet Meadow' }],
+      leads: [],
+      measurements: [],
+      bloomRecords: [],
+      careEntries: [],
+    }),
+  },
+  // Division hand-offs: growers send and list them; the fixture's was sent by the grower, who may withdraw it.
+  'GET /api/collections/:collectionId/handoffs': { expected: MEMBERS('grower', 200) },
+  'GET /api/collections/:collectionId/plants/:plantId/handoffs': { expected: MEMBERS('grower', 200) },
+  'POST /api/collections/:collectionId/plants/:plantId/handoffs': { expected: MEMBERS('grower', 201), body: () => ({ email: 'new-keeper@example.test' }) },
+  'DELETE /api/collections/:collectionId/handoffs/:handoffId': { expected: MEMBERS('grower', 204) },
+  /** The link shows its offer to anyone; only the recipient (the fixture's is sent to the outsider) may accept. */
+  'GET /api/handoffs/:token': { expected: PUBLIC(200) },
+  'POST /api/handoffs/:token/accept': {
+    expected: { anonymous: 401, outsider: 200, viewer: 403, grower: 403, owner: 403 },
+    body: () => ({ newCollectionName: 'Received divisions' }),
+  },
 };
 
 const PRINCIPALS: Principal[] = ['anonymous', 'outsider', 'viewer', 'grower', 'owner'];
@@ -143,6 +179,12 @@ describe('role matrix', () => {
     const records = await buildRecords(testDb(), fixture.collectionId, fixture.people.grower.id);
     const invitation = await insertInvitation(testDb(), fixture.collectionId, fixture.people.owner.id);
     const photo = await insertPhoto(testDb(), photoStore, { collectionId: fixture.collectionId, userId: fixture.people.grower.id, role: 'grower' }, records.lead.id);
+    const handoff = await insertHandoff(testDb(), {
+      collectionId: fixture.collectionId,
+      plantId: records.plant.id,
+      sentBy: fixture.people.grower.id,
+      recipientEmail: fixture.people.outsider.email,
+    });
     const [method, template] = route.split(' ');
     const path = template
       .replace(':collectionId', fixture.collectionId)
@@ -153,7 +195,8 @@ describe('role matrix', () => {
       .replace(':measurementId', records.measurement.id)
       .replace(':careId', records.care.id)
       .replace(':invitationId', invitation.id)
-      .replace(':token', invitation.token)
+      .replace(':handoffId', handoff.id)
+      .replace(':token', template.includes('/handoffs/') ? handoff.token : invitation.token)
       .replace(':photoId', photo.id)
       .replace(':size', 'thumb') + (entry.query ?? '').replace(':leadId', records.lead.id);
     const cookie = principal === 'anonymous' ? undefined : fixture.people[principal].cookie;

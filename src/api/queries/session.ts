@@ -44,3 +44,12 @@ export function useSignOutMutation() {
     onSettled: () => switchPerson(client, null),
   });
 }
+
+/** Ends the account's sessions on every device, this one included. */
+export function useSignOutEverywhereMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: () => request('/auth/sign-out-everywhere', { method: 'POST' }),
+    onSuccess: () => switchPerson(client, null),
+  });
+}

@@ -43,7 +43,10 @@ export function LeadScreen() {
 
 function LeadBody({ lead }: { lead: LeadDetail }) {
   const me = useMeQuery();
-  const { collectionId, canWrite, isOwner, units } = useCollectionSettings();
+  const settings = useCollectionSettings();
+  const { collectionId, isOwner, units } = settings;
+  // A lead of a read-only history copy (brought in with a division) takes no writes.
+  const canWrite = settings.canWrite && !lead.plant.historyOnly;
   const add = useAddMeasurementMutation(collectionId, lead.id);
   const mark = useMarkSheathMutation(collectionId, lead.id);
   const updateLead = useUpdateLeadMutation(collectionId, lead.id);

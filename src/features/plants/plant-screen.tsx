@@ -20,6 +20,8 @@ import { AddLeadForm } from './components/add-lead-form';
 import { CareSection } from './components/care-section';
 import { DivideForm } from './components/divide-form';
 import { EditPlantForm } from './components/edit-plant-form';
+import { HandoffBanner } from './components/handoff-banner';
+import { HandoffSection } from './components/handoff-section';
 import { LeadChip } from './components/lead-chip';
 import { Lineage } from './components/lineage';
 import { PlantTrend } from './components/plant-trend';
@@ -45,7 +47,10 @@ function groupBySeason(leads: LeadSummary[]): Array<[number, LeadSummary[]]> {
 
 function PlantBody({ plant }: { plant: PlantDetail }) {
   const router = useRouter();
-  const { collectionId, canWrite, isOwner, units, seasonStartMonth } = useCollectionSettings();
+  const settings = useCollectionSettings();
+  const { collectionId, isOwner, units, seasonStartMonth } = settings;
+  // A read-only copy of another grower's record takes no writes at all.
+  const canWrite = settings.canWrite && !plant.historyOnly;
   const me = useMeQuery();
   const areas = useAreasQuery(collectionId);
   const remove = useDeletePlantMutation(collectionId);
@@ -63,34 +68,37 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
       <Link href="/plants">
         <Text color="accent">‹ All plants</Text>
       </Link>
+      <HandoffBanner plant={plant} />
       <Columns>
         <Column>
-          <Card>
-            {facts.map((fact) => (
-              <Text key={fact as string}>{fact}</Text>
-            ))}
-            {plant.notes ? <Text color="textMuted">{plant.notes}</Text> : null}
-            {canWrite ? (
-              <View style={styles.actions}>
-                <Button label="Add a lead" onPress={() => setPanel('lead')} testID="add-lead" />
-                <Button label="Edit" tone="secondary" onPress={() => setPanel('edit')} testID="edit-plant" />
-                <Button label="Divide" tone="secondary" onPress={() => setPanel('divide')} testID="divide-plant" />
-                {isOwner ? <Button label="Delete" tone="danger" onPress={() => setPanel('delete')} testID="delete-plant" /> : null}
-              </View>
-            ) : null}
-            {panel === 'lead' ? <AddLeadForm collectionId={collectionId} plantId={plant.id} leads={plant.leads} seasonStartMonth={seasonStartMonth} onDone={close} /> : null}
-            {panel === 'edit' ? <EditPlantForm collectionId={collectionId} plant={plant} areas={areas.data ?? []} onDone={close} /> : null}
-            {panel === 'divide' ? <DivideForm collectionId={collectionId} plant={plant} onDone={close} /> : null}
-            {panel === 'delete' ? (
-              <Confirm
-                message={`Delete ${plant.tag} with all its leads, measurements and care history? This cannot be undone.`}
-                confirmLabel="Delete plant"
-                busy={remove.isPending}
-                onCancel={close}
-                onConfirm={() => remove.mutate(plant.id, { onSuccess: () => router.replace('/plants') })}
-              />
-            ) : null}
-          </Card>
+          {facts.length > 0 || plant.notes || canWrite ? (
+            <Card>
+              {facts.map((fact) => (
+                <Text key={fact as string}>{fact}</Text>
+              ))}
+              {plant.notes ? <Text color="textMuted">{plant.notes}</Text> : null}
+              {canWrite ? (
+                <View style={styles.actions}>
+                  <Button label="Add a lead" onPress={() => setPanel('lead')} testID="add-lead" />
+                  <Button label="Edit" tone="secondary" onPress={() => setPanel('edit')} testID="edit-plant" />
+                  <Button label="Divide" tone="secondary" onPress={() => setPanel('divide')} testID="divide-plant" />
+                  {isOwner ? <Button label="Delete" tone="danger" onPress={() => setPanel('delete')} testID="delete-plant" /> : null}
+                </View>
+              ) : null}
+              {panel === 'lead' ? <AddLeadForm collectionId={collectionId} plantId={plant.id} leads={plant.leads} seasonStartMonth={seasonStartMonth} onDone={close} /> : null}
+              {panel === 'edit' ? <EditPlantForm collectionId={collectionId} plant={plant} areas={areas.data ?? []} onDone={close} /> : null}
+              {panel === 'divide' ? <DivideForm collectionId={collectionId} plant={plant} onDone={close} /> : null}
+              {panel === 'delete' ? (
+                <Confirm
+                  message={`Delete ${plant.tag} with all its leads, measurements and care history? This cannot be undone.`}
+                  confirmLabel="Delete plant"
+                  busy={remove.isPending}
+                  onCancel={close}
+                  onConfirm={() => remove.mutate(plant.id, { onSuccess: () => router.replace('/plants') })}
+                />
+              ) : null}
+            </Card>
+          ) : null}
           <Card title="Leads by season" testID="plant-leads">
             {plant.leads.length === 0 ? <Text color="textMuted">No leads recorded yet. Add the first new growth you see.</Text> : null}
             {groupBySeason(plant.leads).map(([season, leads]) => (
@@ -115,7 +123,7 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
               collectionId={collectionId}
               subject={{ plantId: plant.id }}
               canWrite={canWrite}
-              canDelete={(photo) => isOwner || (canWrite && photo.uploadedBy === me.data?.user.id)}
+              canDelete={(photo) => canWrite && (isOwner || photo.uploadedBy === me.data?.user.id)}
               attachOptions={[{ label: 'The whole plant', target: { plantId: plant.id } }]}
               describe={(photo) => {
                 const lead = photo.leadId ? plant.leads.find((l) => l.id === photo.leadId) : undefined;
@@ -128,6 +136,7 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
           <PlantTrend collectionId={collectionId} plantId={plant.id} units={units} />
           <Lineage plant={plant} />
           <CareSection collectionId={collectionId} plantId={plant.id} entries={plant.care} areas={areas.data ?? []} canWrite={canWrite} />
+          {canWrite && !plant.givenAwayOn ? <HandoffSection collectionId={collectionId} plant={plant} /> : null}
         </Column>
       </Columns>
     </Screen>

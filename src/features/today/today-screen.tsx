@@ -11,6 +11,7 @@ import { useIsWide } from '@/lib/use-is-wide';
 import type { AttentionListResponse } from '@/shared/schemas/engine';
 import { colors, radius, spacing } from '@/theme';
 import { useCurrentCollection } from '../collections/current-collection';
+import { ColdNightsCard } from './components/cold-nights-card';
 
 type Item = AttentionListResponse['items'][number];
 
@@ -36,6 +37,7 @@ export function TodayScreen() {
   const attention = useAttentionQuery(collection?.id ?? '');
   return (
     <Screen title="Today" subtitle={`${formatLongDate(new Date())}${collection ? ` · ${collection.name}` : ''}`} testID="today-screen">
+      {collection ? <ColdNightsCard collectionId={collection.id} isOwner={collection.role === 'owner'} /> : null}
       <QueryState
         query={attention}
         loadingLabel="Looking over the collection…"

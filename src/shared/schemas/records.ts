@@ -43,6 +43,9 @@ export const areaSchema = z.object({
 
 // ── Plants ────────────────────────────────────────────────────────────────────────────
 
+/** A plant's own night limit, °C: the range the database accepts (plants_min_night_temp_range). */
+export const MIN_NIGHT_TEMP_RANGE_C = { min: -20, max: 35 } as const;
+
 const plantFields = {
   tag: z.string({ error: 'Enter the tag' }).trim().min(1, 'Enter the tag').max(40, 'At most 40 characters'),
   genus: z
@@ -62,6 +65,13 @@ const plantFields = {
   areaId: idSchema.nullish().transform((v) => v ?? null),
   medium: optionalText(60),
   notes: optionalText(4000),
+  /** The grower's own minimum night temperature for this plant, °C; null uses the genus default. */
+  minNightTempC: z
+    .number({ error: 'Minimum night temperature is a number of °C' })
+    .min(MIN_NIGHT_TEMP_RANGE_C.min, `Minimum night temperature is between ${MIN_NIGHT_TEMP_RANGE_C.min} and ${MIN_NIGHT_TEMP_RANGE_C.max} °C`)
+    .max(MIN_NIGHT_TEMP_RANGE_C.max, `Minimum night temperature is between ${MIN_NIGHT_TEMP_RANGE_C.min} and ${MIN_NIGHT_TEMP_RANGE_C.max} °C`)
+    .nullish()
+    .transform((v) => v ?? null),
 };
 
 export const plantInputSchema = z.object(plantFields);
@@ -82,6 +92,15 @@ export const plantSchema = z.object({
   notes: z.string().nullable(),
   parentPlantId: idSchema.nullable(),
   dividedOn: calendarDateSchema.nullable(),
+  /** The grower's own minimum night temperature, °C; null uses the genus default. */
+  minNightTempC: z.number().nullable(),
+  /** A read-only copy of another grower's plant, brought in with a division handed over. */
+  historyOnly: z.boolean(),
+  /** Set when the plant was handed to someone else: the day, and to whom. */
+  givenAwayOn: calendarDateSchema.nullable(),
+  givenTo: z.string().nullable(),
+  /** Who handed this plant (or this history) over. */
+  receivedFrom: z.string().nullable(),
   version: z.number().int(),
 });
 
@@ -299,7 +318,7 @@ export const plantListItemSchema = plantSchema.extend({
 });
 export const plantPageSchema = pageSchema(plantListItemSchema);
 
-export const plantRefSchema = z.object({ id: idSchema, tag: z.string(), genus: z.string(), epithet: z.string(), isSpecies: z.boolean(), clonalName: z.string().nullable(), dividedOn: calendarDateSchema.nullable() });
+export const plantRefSchema = z.object({ id: idSchema, tag: z.string(), genus: z.string(), epithet: z.string(), isSpecies: z.boolean(), clonalName: z.string().nullable(), dividedOn: calendarDateSchema.nullable(), historyOnly: z.boolean() });
 
 export const plantDetailSchema = plantSchema.extend({
   areaName: z.string().nullable(),

@@ -5,6 +5,8 @@ import { createApp, type AppOptions } from '../../../server/app';
 import { startFakeSmtp, type FakeSmtpServer } from '../../../server/mail/fake-smtp';
 import { createSmtpMailer } from '../../../server/mail/mailer';
 import { createRateLimits } from '../../../server/middleware/rate-limit';
+import { createWeatherClient, type WeatherClient } from '../../../server/weather/client';
+import { startFakeWeather, type FakeWeatherServer } from '../../../server/weather/fake-weather';
 import { testDb } from './database';
 
 /** Limits loose enough that ordinary tests never meet them; rate-limit tests pass their own. */
@@ -15,8 +17,15 @@ export interface TestServer {
   server: Server;
   /** The fake SMTP server on loopback this server's mail goes to. */
   mail: FakeSmtpServer;
+  /** The fake forecast service on loopback this server's night forecasts come from. */
+  weather: FakeWeatherServer;
+  /** The server's forecast client (its cache can be cleared between cases). */
+  forecasts: WeatherClient;
   close: () => Promise<void>;
 }
+
+/** The API tests' forecast time-out: short, so a slow fake costs little; the fake on loopback answers in milliseconds. */
+export const TEST_WEATHER_TIMEOUT_MS = 1000;
 
 /** The real app on a loopback port, so Origin and Host look as they do in a browser. */
 export async function startTestServer(options: Partial<AppOptions> = {}): Promise<TestServer> {
@@ -24,7 +33,9 @@ export async function startTestServer(options: Partial<AppOptions> = {}): Promis
   // The mailer needs the app's URL for its links and the app needs the mailer: fill it in after listen.
   const smtp = createSmtpMailer({ host: mail.host, port: mail.port, secure: false, from: 'Sympodia <test@sympodia.invalid>', publicUrl: '' });
   const mailer = { publicUrl: '', send: smtp.send };
-  const app = createApp({ db: testDb(), rateLimits: createRateLimits(RELAXED_LIMITS), mailer, mailbox: mail, ...options });
+  const weather = await startFakeWeather();
+  const forecasts = createWeatherClient({ baseUrl: weather.url, timeoutMs: TEST_WEATHER_TIMEOUT_MS });
+  const app = createApp({ db: testDb(), rateLimits: createRateLimits(RELAXED_LIMITS), mailer, mailbox: mail, weather: forecasts, weatherFake: weather, ...options });
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(0, '127.0.0.1', () => resolve(s));
   });
@@ -35,9 +46,12 @@ export async function startTestServer(options: Partial<AppOptions> = {}): Promis
     url,
     server,
     mail,
+    weather,
+    forecasts,
     close: async () => {
       await new Promise<void>((resolve) => server.close(() => resolve()));
       await mail.close();
+      await weather.close();
     },
   };
 }

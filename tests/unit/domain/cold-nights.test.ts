@@ -16,7 +16,8 @@ describe('plantsToBringIn', () => {
     expect(out.map((i) => i.plantId)).toEqual(['tender', 'catt']);
     expect(out[0]).toMatchObject({ limitC: 15, limitSource: 'plant', marginC: 7 });
     expect(out[1]).toMatchObject({ limitC: CATTLEYA_DEFAULTS.minNightTempC, limitSource: 'genus' });
-    expect(out[1].reason).toBe('forecast low 8.0 °C is 2.0 °C under the C. limit of 10.0 °C');
+    // 13 °C: the low end of the AOS culture sheet's 13–16 °C Cattleya nights (REFERENCES.md).
+    expect(out[1].reason).toBe('forecast low 8.0 °C is 5.0 °C under the C. limit of 13.0 °C');
   });
 
   it.each([

@@ -7,6 +7,8 @@ import { FormActions } from '@/components/form-actions';
 import { Chip } from '@/components/chip';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
+import { parseNumber } from '@/components/number-field';
+import { genusDefaultsFor } from '@/domain/genus-defaults';
 import type { Area, PlantDetail } from '@/shared/schemas/records';
 import { spacing } from '@/theme';
 
@@ -19,7 +21,10 @@ export function EditPlantForm({ collectionId, plant, areas, onDone }: { collecti
   const [medium, setMedium] = useState(plant.medium ?? '');
   const [areaId, setAreaId] = useState(plant.areaId);
   const [notes, setNotes] = useState(plant.notes ?? '');
+  const [minNight, setMinNight] = useState(plant.minNightTempC === null ? '' : String(plant.minNightTempC));
+  const [minNightError, setMinNightError] = useState<string | undefined>();
   const error = update.error instanceof ApiError ? update.error : undefined;
+  const genusLimit = genusDefaultsFor(plant.genus).minNightTempC;
 
   return (
     <View style={styles.form} testID="edit-plant-form">
@@ -37,18 +42,32 @@ export function EditPlantForm({ collectionId, plant, areas, onDone }: { collecti
           <Chip key={a.id} label={a.name} selected={areaId === a.id} onPress={() => setAreaId(areaId === a.id ? null : a.id)} />
         ))}
       </View>
+      <TextField
+        label="Lowest night temperature (°C)"
+        value={minNight}
+        onChangeText={(text) => {
+          setMinNight(text);
+          setMinNightError(undefined);
+        }}
+        inputMode="decimal"
+        hint={`Bring in below this. Blank uses the ${plant.genus} default of ${genusLimit} °C.`}
+        error={minNightError ?? error?.fieldError('minNightTempC')}
+        testID="plant-min-night"
+      />
       <TextField label="Notes" value={notes} onChangeText={setNotes} multiline />
       <FormActions onCancel={onDone}>
         <Button
           label="Save changes"
           loading={update.isPending}
           testID="save-plant-edit"
-          onPress={() =>
+          onPress={() => {
+            const minNightTempC = parseNumber(minNight);
+            if (Number.isNaN(minNightTempC)) return setMinNightError('Write a temperature in °C, such as 10 or 12.5, or leave it blank');
             update.mutate(
-              { tag, epithet, clonalName: clonalName || null, medium: medium || null, areaId, notes: notes || null, version: plant.version },
+              { tag, epithet, clonalName: clonalName || null, medium: medium || null, areaId, notes: notes || null, minNightTempC, version: plant.version },
               { onSuccess: onDone },
-            )
-          }
+            );
+          }}
         />
       </FormActions>
     </View>

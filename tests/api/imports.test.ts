@@ -1,0 +1,247 @@
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { and, eq, sql } from 'drizzle-orm';
+import supertest from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { bloomRecords, importMappings, leads, measurements, plants } from '../../db/schema';
+import { IMPORT_MAX_BYTES } from '@/shared/schemas/imports';
+import { insertLead, insertMeasurement, insertPlant } from '../factories/records';
+import { testDb } from './support/database';
+import { collectionWorld, expectRefused } from './support/records';
+import { startTestServer, type TestServer } from './support/server';
+
+let server: TestServer;
+beforeAll(async () => {
+  server = await startTestServer();
+});
+afterAll(async () => {
+  await server.close();
+});
+
+type World = Awaited<ReturnType<typeof collectionWorld>>;
+type Who = 'owner' | 'grower' | 'viewer' | 'outsider';
+
+const fixture = (name: string) => readFileSync(join(__dirname, '..', 'fixtures', 'import', name), 'utf8');
+
+/** The file as the Import screen sends it: the raw CSV body, the options as JSON in the query. */
+function send(w: World, who: Who, path: string, csv: string, options?: object, collection = w.collectionId) {
+  let req = supertest(server.url)
+    .post(`/api/collections/${collection}/imports${path}`)
+    .set('Origin', server.url)
+    .set('Cookie', w.people[who].cookie)
+    .set('Content-Type', 'text/csv');
+  if (options) req = req.query({ options: JSON.stringify(options) });
+  return req
+    .buffer(true)
+    .parse((res, done) => {
+      let text = '';
+      res.setEncoding('utf8');
+      res.on('data', (part: string) => (text += part));
+      res.on('end', () => done(null, text));
+    })
+    .send(csv)
+    .then((res) => {
+      const text = res.body as string;
+      const type = String(res.headers['content-type'] ?? '');
+      const lines = type.includes('ndjson') ? text.trim().split('\n').map((l) => JSON.parse(l)) : [];
+      return Object.assign(res, { body: type.includes('json') && !type.includes('ndjson') ? JSON.parse(text) : text, lines });
+    });
+}
+const check = (w: World, who: Who, csv: string, options?: object) => send(w, who, '/check', csv, options);
+const run = (w: World, who: Who, csv: string, options?: object) => send(w, who, '', csv, options);
+
+async function counts(collectionId: string) {
+  const db = testDb();
+  const count = async (table: typeof plants | typeof leads | typeof measurements | typeof bloomRecords) =>
+    (await db.select({ n: sql<number>`count(*)::int` }).from(table).where(eq(table.collectionId, collectionId)))[0].n;
+  return { plants: await count(plants), leads: await count(leads), measurements: await count(measurements), blooms: await count(bloomRecords) };
+}
+
+describe('the messy sample spreadsheet', () => {
+  it('gets its exact report row by row in the dry run, and the import refuses it, writing nothing', async () => {
+    const w = await collectionWorld(server);
+    const res = await check(w, 'grower', fixture('messy.csv'));
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body.ready).toBe(false);
+    expect(res.body.issues).toEqual([
+      { row: 4, column: 'Sheath', reason: '"open" is not a sheath state; use none, forming, empty, budded or dry' },
+      { row: 7, column: 'Date', reason: 'Row 6 already has lead 2024-B of SYM-002 on 2024-04-02' },
+      { row: 10, column: 'Date', reason: '"2024-13-02" is not a real date' },
+      { row: 12, column: 'Grex / Species', reason: 'Plant SYM-004 is new: enter its grex or species' },
+      { row: 12, column: 'Height (cm)', reason: '3000 mm is above 1500 mm, which is not plausible' },
+    ]);
+    expect(res.body.issueCount).toBe(5);
+    expect(res.body.mapping).toMatchObject({ tag: 'Plant Tag', height_mm: 'Height (cm)', root_tips: 'New roots' });
+    expect(res.body.heightUnit).toEqual({ fromHeader: 'cm', used: 'cm', needed: false });
+
+    const refused = await run(w, 'grower', fixture('messy.csv'));
+    expectRefused(refused, 400, 'rows.4.Sheath', /not a sheath state/);
+    expect(refused.body.error.details).toHaveLength(5);
+    expect(await counts(w.collectionId)).toEqual({ plants: 0, leads: 0, measurements: 0, blooms: 0 });
+  });
+});
+
+describe('the fixed spreadsheet', () => {
+  it('previews, imports exactly once with progress, and a second import adds nothing', async () => {
+    const w = await collectionWorld(server);
+    const dry = await check(w, 'grower', fixture('fixed.csv'));
+    expect(dry.status, JSON.stringify(dry.body)).toBe(200);
+    expect(dry.body).toMatchObject({ ready: true, issues: [], dateOrder: { detected: 'dmy', used: 'dmy', needed: false } });
+    expect(dry.body.preview[1]).toMatchObject({ row: 3, tag: 'SYM-001', date: '2024-04-12', heightMm: 62, sheath: 'forming', measurement: 'new' });
+    expect(await counts(w.collectionId)).toEqual({ plants: 0, leads: 0, measurements: 0, blooms: 0 });
+
+    const first = await run(w, 'grower', fixture('fixed.csv'));
+    expect(first.status, JSON.stringify(first.body)).toBe(200);
+    expect(first.lines[0]).toEqual({ phase: 'writing', done: 0, total: 4 + 4 + 8 + 2 });
+    expect(first.lines.at(-2)).toEqual({ phase: 'writing', done: 18, total: 18 });
+    expect(first.lines.at(-1)).toMatchObject({ phase: 'done', counts: { plants: { added: 4 }, leads: { added: 4 }, measurements: { added: 8, already: 0 }, blooms: { added: 2 } } });
+    expect(await counts(w.collectionId)).toEqual({ plants: 4, leads: 4, measurements: 8, blooms: 2 });
+
+    const [stored] = await testDb()
+      .select({ heightMm: measurements.heightMm, sheath: measurements.sheath, createdBy: measurements.createdBy })
+      .from(measurements)
+      .innerJoin(leads, eq(leads.id, measurements.leadId))
+      .innerJoin(plants, eq(plants.id, leads.plantId))
+      .where(and(eq(plants.collectionId, w.collectionId), eq(plants.tag, 'SYM-002'), eq(measurements.measuredOn, '2024-04-30')));
+    // 3 in × 25.4 mm (the inch of the 1959 international agreement).
+    expect(stored).toEqual({ heightMm: 76.2, sheath: 'budded', createdBy: w.people.grower.id });
+
+    const again = await run(w, 'owner', fixture('fixed.csv'));
+    expect(again.status, JSON.stringify(again.body)).toBe(200);
+    expect(again.lines.at(-1)).toEqual({
+      phase: 'done',
+      counts: {
+        rows: 8,
+        blankRows: 2,
+        plants: { added: 0, matched: 4 },
+        leads: { added: 0, matched: 4 },
+        measurements: { added: 0, already: 8 },
+        blooms: { added: 0, filled: 0, already: 2 },
+      },
+    });
+    expect(await counts(w.collectionId)).toEqual({ plants: 4, leads: 4, measurements: 8, blooms: 2 });
+  });
+
+  it('writes a file sent twice at the same moment once: the second waits and finds it all there', async () => {
+    const w = await collectionWorld(server);
+    const [a, b] = await Promise.all([run(w, 'grower', fixture('fixed.csv')), run(w, 'owner', fixture('fixed.csv'))]);
+    const added = [a, b].map((r) => r.lines.at(-1)?.counts?.measurements?.added).sort();
+    expect(added).toEqual([0, 8]);
+    expect(await counts(w.collectionId)).toEqual({ plants: 4, leads: 4, measurements: 8, blooms: 2 });
+  });
+
+  it('reports a stored measurement that differs instead of overwriting it', async () => {
+    const w = await collectionWorld(server);
+    const plant = await insertPlant(testDb(), w.collectionId, { tag: 'SYM-001', genus: 'C.', epithet: 'Hilltop Ember', clonalName: 'Dune' });
+    const lead = await insertLead(testDb(), plant, { label: '2024-A', season: 2024, firstSeen: '2024-03-20' });
+    await insertMeasurement(testDb(), lead, { measuredOn: '2024-03-25', heightMm: 41, leafCount: 2, rootTips: 3, sheath: 'none' });
+    const res = await check(w, 'grower', fixture('fixed.csv'));
+    expect(res.body.issues).toEqual([
+      { row: 2, column: 'Height (cm)', reason: 'Stored as 41 mm for lead 2024-A of SYM-001 on 2024-03-25; the file says 45 mm. Correct one of them' },
+    ]);
+    expectRefused(await run(w, 'grower', fixture('fixed.csv')), 400, 'rows.2.Height (cm)');
+    expect(await counts(w.collectionId)).toMatchObject({ plants: 1, measurements: 1 });
+  });
+});
+
+describe('mapping', () => {
+  it('guesses from the header names, then remembers what the last import used', async () => {
+    const w = await collectionWorld(server);
+    const headers = ['Tag', 'Lead', 'When', 'Height'];
+    const guessed = await supertest(server.url)
+      .post(w.at('/imports/mapping'))
+      .set('Origin', server.url)
+      .set('Cookie', w.people.grower.cookie)
+      .send({ headers });
+    expect(guessed.status).toBe(200);
+    expect(guessed.body).toEqual({ mapping: { tag: 'Tag', lead: 'Lead', height_mm: 'Height' }, source: 'guessed', dateOrder: null, heightUnit: null });
+
+    const csv = 'Tag,Lead,When,Height,Genus,Epithet\nM-1,1,03/04/2024,4,C.,Grex\n';
+    const mapping = { tag: 'Tag', lead: 'Lead', date: 'When', height_mm: 'Height', genus: 'Genus', epithet: 'Epithet' };
+    const undecided = await check(w, 'grower', csv, { mapping });
+    expect(undecided.body).toMatchObject({ ready: false, dateOrder: { needed: true }, heightUnit: { needed: true } });
+    expectRefused(await run(w, 'grower', csv, { mapping }), 400, 'dateOrder');
+    const done = await run(w, 'grower', csv, { mapping, dateOrder: 'mdy', heightUnit: 'in' });
+    expect(done.lines.at(-1)).toMatchObject({ phase: 'done' });
+    const [m] = await testDb().select({ on: measurements.measuredOn, mm: measurements.heightMm }).from(measurements).where(eq(measurements.collectionId, w.collectionId));
+    expect(m).toEqual({ on: '2024-03-04', mm: 101.6 });
+
+    const remembered = await supertest(server.url)
+      .post(w.at('/imports/mapping'))
+      .set('Origin', server.url)
+      .set('Cookie', w.people.owner.cookie)
+      .send({ headers: ['tag', 'LEAD', 'when', 'height', 'genus', 'epithet'] });
+    expect(remembered.body).toEqual({
+      mapping: { tag: 'tag', lead: 'LEAD', date: 'when', height_mm: 'height', genus: 'genus', epithet: 'epithet' },
+      source: 'remembered',
+      dateOrder: 'mdy',
+      heightUnit: 'in',
+    });
+    expect(await testDb().select().from(importMappings).where(eq(importMappings.collectionId, w.collectionId))).toHaveLength(1);
+  });
+
+  it('refuses a mapping without the tag, naming the field', async () => {
+    const w = await collectionWorld(server);
+    expectRefused(await check(w, 'grower', 'Tag,Lead\nA,1\n', { mapping: { lead: 'Lead' } }), 400, 'mapping.tag', /plant tag/);
+    expectRefused(await check(w, 'grower', 'Tag,Lead\nA,1\n', { mapping: { tag: 'Nope', lead: 'Lead' } }), 400, 'mapping.tag', /no column "Nope"/);
+  });
+});
+
+describe('refusals', () => {
+  it('gives viewers 403 and another collection 404, and writes nothing', async () => {
+    const w = await collectionWorld(server);
+    expectRefused(await run(w, 'viewer', fixture('fixed.csv')), 403);
+    expectRefused(await check(w, 'viewer', fixture('fixed.csv')), 403);
+    expectRefused(await send(w, 'grower', '', fixture('fixed.csv'), undefined, w.otherCollectionId), 404);
+    expect(await counts(w.collectionId)).toEqual({ plants: 0, leads: 0, measurements: 0, blooms: 0 });
+  });
+
+  it('refuses an empty file, a JSON body, bad options and a file over the size limit', async () => {
+    const w = await collectionWorld(server);
+    expectRefused(await check(w, 'grower', ''), 400, 'file', /no header row/);
+    expectRefused(await check(w, 'grower', 'Tag,Lead\n'), 400, 'file');
+    expectRefused(await check(w, 'grower', fixture('fixed.csv'), { dateOrder: 'ymd' }), 400, 'query.options.dateOrder');
+    const json = await supertest(server.url).post(w.at('/imports/check')).set('Origin', server.url).set('Cookie', w.people.grower.cookie).send({ tag: 'A' });
+    expectRefused(json, 415, 'file');
+    const big = `tag,lead\n${'A-1,1\n'.repeat(Math.ceil(IMPORT_MAX_BYTES / 6) + 10)}`;
+    expectRefused(await check(w, 'grower', big), 413, 'file', /larger than 20 MB/);
+  });
+});
+
+describe('a large file', () => {
+  it('imports 50,000 rows in one go with memory bounded', async () => {
+    const w = await collectionWorld(server);
+    // 2,500 plants × 2 leads × 10 measurements, each lead with a bloom record on its last row.
+    const lines = ['tag,genus,epithet,lead,date,height_mm,leaves,sheath,first_open,flowers'];
+    for (let p = 0; p < 2500; p++) {
+      for (let l = 0; l < 2; l++) {
+        for (let m = 0; m < 10; m++) {
+          const date = `2024-${String(3 + m).padStart(2, '0')}-${String(1 + l * 10 + (p % 9)).padStart(2, '0')}`;
+          const last = m === 9;
+          lines.push(`BIG-${p},Den.,Generated ${p % 37},2024-${'AB'[l]},${date},${10 + m * 8 + (p % 5)},${1 + (m >> 2)},${last ? 'budded' : 'none'},${last ? '2025-01-15' : ''},${last ? 4 : ''}`);
+        }
+      }
+    }
+    const csv = `${lines.join('\n')}\n`;
+    lines.length = 0;
+    const heapBefore = process.memoryUsage().heapUsed;
+    let heapPeak = heapBefore;
+    const sampler = setInterval(() => (heapPeak = Math.max(heapPeak, process.memoryUsage().heapUsed)), 25);
+    try {
+      const res = await run(w, 'grower', csv);
+      expect(res.status, JSON.stringify(res.body).slice(0, 500)).toBe(200);
+      expect(res.lines.at(-1)).toMatchObject({ phase: 'done', counts: { rows: 50_000, plants: { added: 2500 }, leads: { added: 5000 }, measurements: { added: 50_000 }, blooms: { added: 5000 } } });
+      // Batches of 1,000 rows: many progress lines, counting up to the total.
+      const writing = res.lines.filter((l) => l.phase === 'writing');
+      expect(writing.length).toBeGreaterThan(60);
+      expect(writing.at(-1)).toEqual({ phase: 'writing', done: 62_500, total: 62_500 });
+    } finally {
+      clearInterval(sampler);
+    }
+    const growthMb = (heapPeak - heapBefore) / 1024 / 1024;
+    console.info(`50,000-row import: heap grew by at most ${growthMb.toFixed(0)} MB`);
+    // Generous: the file is about 4 MB; holding it many times over would exceed this.
+    expect(growthMb).toBeLessThan(250);
+    expect(await counts(w.collectionId)).toEqual({ plants: 2500, leads: 5000, measurements: 50_000, blooms: 5000 });
+  }, 120_000);
+});
