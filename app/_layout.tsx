@@ -1,3 +1,5 @@
+// First: configures zod for the Content-Security-Policy before any schema is used.
+import '@/lib/zod-config';
 import { QueryClientProvider } from '@tanstack/react-query';
 import { FontDisplay, useFonts } from 'expo-font';
 import { Slot } from 'expo-router';

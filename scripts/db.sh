@@ -2,7 +2,8 @@
 # The project's own PostgreSQL cluster on 127.0.0.1.
 #   scripts/db.sh start|stop|status [dev|test]
 # dev: port 54329, database "sympodia". test: port 54339, database "sympodia_test",
-# fsync off (throwaway data only). With DATABASE_URL set, nothing is started: the
+# fsync off (throwaway data only). faults: port 54349, database "sympodia_faults", stopped and
+# started on purpose by scripts/faults/run.ts (never share it). With DATABASE_URL set, nothing is started: the
 # product uses that database instead.
 set -euo pipefail
 
@@ -13,7 +14,8 @@ root=$(cd "$(dirname "$0")/.." && pwd)
 case "$instance" in
   dev) port=54329; database=sympodia ;;
   test) port=54339; database=sympodia_test ;;
-  *) echo "unknown instance: $instance (dev or test)" >&2; exit 2 ;;
+  faults) port=54349; database=sympodia_faults ;;
+  *) echo "unknown instance: $instance (dev, test or faults)" >&2; exit 2 ;;
 esac
 
 log() { printf '[db:%s] %s\n' "$instance" "$*"; }
@@ -146,5 +148,5 @@ case "$action" in
   start) start ;;
   stop) stop ;;
   status) if is_ready; then log "running on 127.0.0.1:$port (data: $pgdata)"; else log "not running"; exit 3; fi ;;
-  *) echo "usage: scripts/db.sh start|stop|status [dev|test]" >&2; exit 2 ;;
+  *) echo "usage: scripts/db.sh start|stop|status [dev|test|faults]" >&2; exit 2 ;;
 esac

@@ -20,6 +20,14 @@ tsc --noEmit
 echo "[test] unit and API tests"
 vitest run
 
+# Shortened load and fault runs (a few seconds each; real server processes, loopback only), so
+# the full `npm run bench:load` and `npm run test:faults` cannot rot. The fault run uses its own
+# cluster (scripts/db.sh … faults, port 54349), which it stops and starts on purpose.
+echo "[test] load (quick)"
+tsx scripts/bench/load.ts --quick
+echo "[test] faults (quick)"
+tsx scripts/faults/run.ts --quick
+
 build_web
 echo "[test] browser tests"
 playwright test

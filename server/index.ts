@@ -6,8 +6,11 @@ import { seedDemo } from '../db/seed';
 import { createApp } from './app';
 import { readEnv } from './env';
 import { mailFromEnv } from './mail/from-env';
+import { createRateLimits, DEFAULT_AUTH_LIMITS, ensureRateLimitTable } from './middleware/rate-limit';
 import { photoStoreFromEnv } from './photos/from-env';
-import { startDigestScheduler } from './services/digest';
+import { DIGEST_CHECK_INTERVAL_MS, startDigestScheduler } from './services/digest';
+import { startColdNightScheduler } from './services/cold-night-alerts';
+import { weatherFromEnv } from './weather/from-env';
 
 const SHUTDOWN_GRACE_MS = 10_000;
 
@@ -17,14 +20,20 @@ async function main() {
 
   await runMigrations(env.DATABASE_URL);
   const database = createDatabase(env.DATABASE_URL);
+  // Sign-in and mail budgets are shared by every server process on this database.
+  await ensureRateLimitTable(database.client);
   if (env.SEED_DEMO) await seedDemo(database.db, { log: (line) => logger.info(line) });
 
   const mail = await mailFromEnv(env, logger);
+  const forecast = await weatherFromEnv(env, logger);
   const app = createApp({
     db: database.db,
+    rateLimits: createRateLimits(DEFAULT_AUTH_LIMITS, { sql: database.client }),
     logger,
     mailer: mail.mailer,
     mailbox: mail.fake,
+    weather: forecast.weather,
+    weatherFake: forecast.fake,
     photoStore: photoStoreFromEnv(env),
     webRoot: env.WEB_ROOT ? path.resolve(env.WEB_ROOT) : undefined,
     devOrigins: env.DEV_ORIGINS,
@@ -35,7 +44,12 @@ async function main() {
     logger.info(`Sympodia is listening on http://${env.HOST}:${env.PORT}`);
   });
 
-  const stopDigest = startDigestScheduler({ db: database.db, mailer: mail.mailer, logger });
+  const stopDigest = startDigestScheduler(
+    { db: database.db, mailer: mail.mailer, logger, weather: forecast.weather },
+    DIGEST_CHECK_INTERVAL_MS,
+    env.DIGEST_FIRST_CHECK_SECONDS * 1000,
+  );
+  const stopColdNights = startColdNightScheduler({ db: database.db, mailer: mail.mailer, logger, weather: forecast.weather });
 
   let stopping = false;
   const shutdown = (signal: string) => {
@@ -47,8 +61,10 @@ async function main() {
       server.closeAllConnections();
     }, SHUTDOWN_GRACE_MS);
     stopDigest();
+    stopColdNights();
     server.close(async () => {
       await mail.fake?.close();
+      await forecast.fake?.close();
       await database.close();
       logger.info('stopped');
       process.exit(0);

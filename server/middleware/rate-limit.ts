@@ -1,5 +1,6 @@
 import type { Request, RequestHandler } from 'express';
-import { RateLimiterMemory, RateLimiterRes } from 'rate-limiter-flexible';
+import type { Sql } from 'postgres';
+import { RateLimiterAbstract, RateLimiterMemory, RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible';
 import { HttpError } from '../errors';
 
 export interface RateLimitSettings {
@@ -13,14 +14,56 @@ export interface RateLimitSettings {
 /** Sign-in and sign-up limits: generous for a person, tight for a password-guessing script. */
 export const DEFAULT_AUTH_LIMITS: RateLimitSettings = { perIp: 30, perAccount: 10, windowSeconds: 15 * 60 };
 
-export function createRateLimits(settings: RateLimitSettings = DEFAULT_AUTH_LIMITS) {
-  const options = { duration: settings.windowSeconds };
+/**
+ * The counters' table when they are kept in PostgreSQL. rate-limiter-flexible owns its shape
+ * (key, points, expire in epoch ms); it is not part of db/schema.ts, and `ensureRateLimitTable`
+ * creates it on start. Every limiter shares it: keys carry the limiter's prefix.
+ */
+export const RATE_LIMIT_TABLE = 'rate_limit_counts';
+
+export async function ensureRateLimitTable(sql: Sql): Promise<void> {
+  await sql.unsafe(
+    `create table if not exists "${RATE_LIMIT_TABLE}" (key varchar(255) primary key, points integer not null default 0, expire bigint)`,
+  );
+}
+
+/**
+ * The driver rate-limiter-flexible expects (`pg`'s `query({ text, values })` → `{ rows }`), on the
+ * project's own `postgres` client, so no second PostgreSQL driver is needed.
+ */
+function pgStyle(sql: Sql) {
   return {
-    authIp: new RateLimiterMemory({ ...options, points: settings.perIp, keyPrefix: 'auth-ip' }),
-    authAccount: new RateLimiterMemory({ ...options, points: settings.perAccount, keyPrefix: 'auth-account' }),
+    query: async ({ text, values }: { text: string; values?: unknown[] }) => ({
+      rows: await sql.unsafe(text, (values ?? []) as never[]),
+    }),
+  };
+}
+
+/**
+ * One budget per limiter. Without `store` the counts live in this process's memory (tests, one
+ * server). With `store` (server/index.ts) they live in PostgreSQL, so every server process behind
+ * one database shares them; while the database cannot be reached each process falls back to its
+ * own memory counts rather than refusing or waving everyone through.
+ */
+export function createRateLimits(settings: RateLimitSettings = DEFAULT_AUTH_LIMITS, store?: { sql: Sql }) {
+  const make = (keyPrefix: string, points: number): RateLimiterAbstract => {
+    const options = { duration: settings.windowSeconds, points, keyPrefix };
+    if (!store) return new RateLimiterMemory(options);
+    return new RateLimiterPostgres({
+      ...options,
+      storeClient: pgStyle(store.sql),
+      storeType: 'pool',
+      tableName: RATE_LIMIT_TABLE,
+      tableCreated: true,
+      insuranceLimiter: new RateLimiterMemory(options),
+    });
+  };
+  return {
+    authIp: make('auth-ip', settings.perIp),
+    authAccount: make('auth-account', settings.perAccount),
     // Routes that send mail (invitations, password reset): the same budget, counted apart from sign-in.
-    mailIp: new RateLimiterMemory({ ...options, points: settings.perIp, keyPrefix: 'mail-ip' }),
-    mailAccount: new RateLimiterMemory({ ...options, points: settings.perAccount, keyPrefix: 'mail-account' }),
+    mailIp: make('mail-ip', settings.perIp),
+    mailAccount: make('mail-account', settings.perAccount),
   };
 }
 
@@ -31,7 +74,7 @@ function tooMany(result: unknown): HttpError {
   return new HttpError(429, 'rate_limited', `Too many attempts; try again in ${Math.max(1, Math.ceil(seconds / 60))} minute(s)`);
 }
 
-export async function consume(limiter: RateLimiterMemory, key: string): Promise<void> {
+export async function consume(limiter: RateLimiterAbstract, key: string): Promise<void> {
   try {
     await limiter.consume(key);
   } catch (result) {
@@ -41,7 +84,7 @@ export async function consume(limiter: RateLimiterMemory, key: string): Promise<
 }
 
 /** Counts every attempt against the client's address before the route runs. */
-export function limitByIp(limiter: RateLimiterMemory): RequestHandler {
+export function limitByIp(limiter: RateLimiterAbstract): RequestHandler {
   return async (req: Request, _res, next) => {
     await consume(limiter, req.ip ?? 'unknown');
     next();

@@ -15,7 +15,7 @@ export const optionalText = (max: number) =>
     .transform((value) => (value ? value : null));
 
 /** Row version for optimistic concurrency: a save of a stale copy is refused with 409. */
-export const versionSchema = z.number({ error: 'Send the version you last read' }).int().min(1);
+export const versionSchema = z.number({ error: 'Send the version you last read' }).int().min(1).max(2_147_483_647, 'Not a version this server wrote');
 
 export const paginationQuerySchema = z.object({
   page: z.coerce.number().int().min(1, 'Pages start at 1').max(100_000).default(1),

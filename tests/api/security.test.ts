@@ -1,0 +1,229 @@
+import fs from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import { eq } from 'drizzle-orm';
+import supertest from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { sessions } from '../../db/schema';
+import { createRateLimits } from '../../server/middleware/rate-limit';
+import { buildCollectionWithMembers, buildSignUp } from '../factories/users';
+import { testDb } from './support/database';
+import { browser, startTestServer, type TestServer } from './support/server';
+
+/**
+ * Access extras beside tests/api/auth.test.ts (which covers HttpOnly, SameSite, Secure behind
+ * a proxy, rotation on sign-in and sign-out): cookie scope, signing out everywhere, the rate
+ * limits of every route that signs in or sends mail, and the security headers and CSP.
+ */
+
+let server: TestServer;
+let webRoot: string;
+
+beforeAll(async () => {
+  // A stand-in web build, so the headers on the app's own pages are checked too.
+  webRoot = await fs.mkdtemp(path.join(os.tmpdir(), 'sympodia-security-web-'));
+  await fs.writeFile(path.join(webRoot, 'index.html'), '<!doctype html><html><head><title>Sympodia</title></head><body><div id="root"></div></body></html>');
+  server = await startTestServer({ webRoot });
+});
+afterAll(async () => {
+  await server.close();
+  await fs.rm(webRoot, { recursive: true, force: true });
+});
+
+const sessionCookieOf = (res: { headers: Record<string, unknown> }) =>
+  ((res.headers['set-cookie'] as string[] | undefined) ?? []).find((c) => c.startsWith('sympodia_session='));
+
+async function sessionRows(userId: string) {
+  return testDb().select({ id: sessions.id }).from(sessions).where(eq(sessions.userId, userId));
+}
+
+describe('session cookie', () => {
+  it('is scoped to the whole site (Path=/), HttpOnly, SameSite=Lax, and lives as long as the session', async () => {
+    const res = await browser(server.url).post('/api/auth/sign-up', buildSignUp());
+    const cookie = sessionCookieOf(res)!;
+    expect(cookie).toMatch(/; Path=\/(;|$)/);
+    expect(cookie).toMatch(/; HttpOnly/i);
+    expect(cookie).toMatch(/; SameSite=Lax/i);
+    const maxAge = Number(/Max-Age=(\d+)/i.exec(cookie)?.[1]);
+    expect(maxAge).toBeGreaterThan(24 * 60 * 60);
+    expect(cookie).not.toMatch(/Domain=/i);
+  });
+
+  it('is cleared (expired, same Path) on sign-out', async () => {
+    const person = browser(server.url);
+    await person.post('/api/auth/sign-up', buildSignUp());
+    const res = await person.post('/api/auth/sign-out');
+    const cleared = sessionCookieOf(res)!;
+    expect(cleared).toMatch(/^sympodia_session=;/);
+    expect(cleared).toMatch(/; Path=\//);
+    expect(cleared).toMatch(/Max-Age=0|Expires=Thu, 01 Jan 1970/i);
+  });
+
+  it('sign-in replaces a session id the browser already carried (no fixation), and the old id stops working', async () => {
+    const input = buildSignUp();
+    const first = browser(server.url);
+    await first.post('/api/auth/sign-up', input);
+    const planted = first.cookie!;
+    const res = await browser(server.url, planted).post('/api/auth/sign-in', { email: input.email, password: input.password });
+    expect(res.status).toBe(200);
+    const issued = sessionCookieOf(res)!.split(';')[0];
+    expect(issued).not.toBe(planted);
+    expect((await browser(server.url, planted).get('/api/session')).body.me).toBeNull();
+    expect((await browser(server.url, issued).get('/api/session')).body.me).not.toBeNull();
+  });
+});
+
+describe('sign out everywhere', () => {
+  it("ends every session of the account, on every device, and no one else's", async () => {
+    const input = buildSignUp();
+    const phone = browser(server.url);
+    await phone.post('/api/auth/sign-up', input);
+    const laptop = browser(server.url);
+    await laptop.post('/api/auth/sign-in', { email: input.email, password: input.password });
+    const userId = (await phone.get('/api/session')).body.me.user.id as string;
+    expect(await sessionRows(userId)).toHaveLength(2);
+
+    const someoneElse = browser(server.url);
+    await someoneElse.post('/api/auth/sign-up', buildSignUp());
+
+    const res = await laptop.post('/api/auth/sign-out-everywhere');
+    expect(res.status).toBe(204);
+    expect(sessionCookieOf(res)).toMatch(/^sympodia_session=;/);
+    expect(await sessionRows(userId)).toHaveLength(0);
+    expect((await phone.get('/api/session')).body.me).toBeNull();
+    expect((await laptop.get('/api/session')).body.me).toBeNull();
+    expect((await someoneElse.get('/api/session')).body.me).not.toBeNull();
+    // The account itself still works: signing in again gives a fresh session.
+    expect((await browser(server.url).post('/api/auth/sign-in', { email: input.email, password: input.password })).status).toBe(200);
+  });
+
+  it('needs a signed-in browser (401) and a same-origin request (403)', async () => {
+    const anonymous = await browser(server.url).post('/api/auth/sign-out-everywhere');
+    expect(anonymous.status).toBe(401);
+    const input = buildSignUp();
+    const person = browser(server.url);
+    await person.post('/api/auth/sign-up', input);
+    const userId = (await person.get('/api/session')).body.me.user.id as string;
+    const crossSite = await supertest(server.url).post('/api/auth/sign-out-everywhere').set('Cookie', person.cookie!).set('Origin', 'https://elsewhere.example');
+    expect(crossSite.status).toBe(403);
+    expect(await sessionRows(userId)).toHaveLength(1);
+  });
+});
+
+describe('rate limits', () => {
+  const SMALL = { perIp: 2, perAccount: 2, windowSeconds: 60 };
+
+  async function withLimits<T>(limits: typeof SMALL, run: (s: TestServer) => Promise<T>): Promise<T> {
+    const limited = await startTestServer({ rateLimits: createRateLimits(limits) });
+    try {
+      return await run(limited);
+    } finally {
+      await limited.close();
+    }
+  }
+
+  const expectTooMany = (res: { status: number; body: { error: { code: string; message: string } } }) => {
+    expect(res.status).toBe(429);
+    expect(res.body.error.code).toBe('rate_limited');
+    expect(res.body.error.message).toMatch(/^Too many attempts.*; try again (in \d+ minute|later)/);
+  };
+
+  it('sign-in: per account, whichever address the guesses come from', async () => {
+    await withLimits({ ...SMALL, perIp: 1000 }, async (s) => {
+      const input = buildSignUp();
+      await browser(s.url).post('/api/auth/sign-up', input);
+      for (let i = 0; i < 2; i += 1) expect((await browser(s.url).post('/api/auth/sign-in', { email: input.email, password: 'not-the-one-123' })).status).toBe(401);
+      expectTooMany(await browser(s.url).post('/api/auth/sign-in', { email: input.email, password: 'not-the-one-123' }));
+    });
+  });
+
+  it('sign-up: per client address', async () => {
+    await withLimits(SMALL, async (s) => {
+      for (let i = 0; i < 2; i += 1) expect((await browser(s.url).post('/api/auth/sign-up', buildSignUp())).status).toBe(201);
+      expectTooMany(await browser(s.url).post('/api/auth/sign-up', buildSignUp()));
+    });
+  });
+
+  it('password reset request: per account and per client address', async () => {
+    await withLimits({ ...SMALL, perIp: 1000 }, async (s) => {
+      const input = buildSignUp();
+      await browser(s.url).post('/api/auth/sign-up', input);
+      for (let i = 0; i < 2; i += 1) expect((await browser(s.url).post('/api/auth/password-reset', { email: input.email })).status).toBe(202);
+      expectTooMany(await browser(s.url).post('/api/auth/password-reset', { email: input.email }));
+      // Another address is counted apart.
+      expect((await browser(s.url).post('/api/auth/password-reset', { email: 'other@example.test' })).status).toBe(202);
+    });
+    await withLimits({ ...SMALL, perAccount: 1000 }, async (s) => {
+      for (let i = 0; i < 2; i += 1) expect((await browser(s.url).post('/api/auth/password-reset', { email: `r${i}@example.test` })).status).toBe(202);
+      expectTooMany(await browser(s.url).post('/api/auth/password-reset', { email: 'r9@example.test' }));
+    });
+  });
+
+  it('password reset completion: per client address', async () => {
+    await withLimits(SMALL, async (s) => {
+      const body = { token: 'C'.repeat(43), password: 'pseudobulb-ladder-77' };
+      for (let i = 0; i < 2; i += 1) expect((await browser(s.url).post('/api/auth/password-reset/complete', body)).status).toBe(400);
+      expectTooMany(await browser(s.url).post('/api/auth/password-reset/complete', body));
+    });
+  });
+
+  it('invitation send: per inviting account', async () => {
+    await withLimits({ ...SMALL, perIp: 1000 }, async (s) => {
+      const world = await buildCollectionWithMembers(testDb());
+      const owner = browser(s.url, world.people.owner.cookie);
+      const at = `/api/collections/${world.collectionId}/invitations`;
+      for (let i = 0; i < 2; i += 1) expect((await owner.post(at, { email: `partner${i}@example.test`, role: 'grower' })).status).toBe(201);
+      expectTooMany(await owner.post(at, { email: 'partner9@example.test', role: 'grower' }));
+    });
+  });
+
+  it('invitation send: per client address', async () => {
+    await withLimits({ ...SMALL, perAccount: 1000 }, async (s) => {
+      const world = await buildCollectionWithMembers(testDb());
+      const owner = browser(s.url, world.people.owner.cookie);
+      const at = `/api/collections/${world.collectionId}/invitations`;
+      for (let i = 0; i < 2; i += 1) expect((await owner.post(at, { email: `friend${i}@example.test`, role: 'viewer' })).status).toBe(201);
+      expectTooMany(await owner.post(at, { email: 'friend9@example.test', role: 'viewer' }));
+    });
+  });
+});
+
+describe('security headers', () => {
+  const paths = ['/api/health', '/api/collections/not-a-uuid', '/', '/plants'];
+
+  it.each(paths)('%s carries HSTS, nosniff, a Referrer-Policy, frame-ancestors none, and no X-Powered-By', async (p) => {
+    const res = await supertest(server.url).get(p);
+    expect(res.headers['strict-transport-security']).toMatch(/max-age=\d{7,}/);
+    expect(res.headers['x-content-type-options']).toBe('nosniff');
+    expect(res.headers['referrer-policy']).toMatch(/^(no-referrer|same-origin|strict-origin(-when-cross-origin)?)$/);
+    expect(res.headers['content-security-policy']).toMatch(/frame-ancestors 'none'/);
+    expect(res.headers['x-powered-by']).toBeUndefined();
+  });
+
+  it('has a strict Content-Security-Policy: no eval, no inline script, no wildcard sources', async () => {
+    const res = await supertest(server.url).get('/');
+    const header = res.headers['content-security-policy'] as string;
+    const directives = new Map(
+      header
+        .split(';')
+        .map((d) => d.trim().split(/\s+/))
+        .filter((parts) => parts[0])
+        .map(([name, ...sources]) => [name, sources] as const),
+    );
+    expect(directives.get('default-src')).toEqual(["'self'"]);
+    const scripts = directives.get('script-src')!;
+    expect(scripts).toContain("'self'");
+    expect(scripts).not.toContain("'unsafe-eval'");
+    expect(scripts).not.toContain("'unsafe-inline'");
+    expect(scripts).not.toContain('data:');
+    expect(directives.get('object-src')).toEqual(["'none'"]);
+    expect(directives.get('base-uri')).toEqual(["'self'"]);
+    expect(directives.get('frame-ancestors')).toEqual(["'none'"]);
+    for (const [name, sources] of directives) {
+      for (const source of sources) {
+        expect(source, `${name} ${source}`).not.toMatch(/\*/);
+        expect(source, `${name} ${source}`).not.toMatch(/^(https?|wss?):$/);
+      }
+    }
+  });
+});
