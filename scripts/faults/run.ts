@@ -343,6 +343,35 @@ async function upload(server: ServerProcess, cookie: string, target: Target, ima
   });
 }
 
+/**
+ * A server whose photo folder is a tmpfs mounted with `options` in the server's own mount
+ * namespace (unshare; needs root), so nothing outside sees the mount. `seen` is the folder as
+ * the server sees it. Null when it did not start.
+ */
+async function startInOwnMount(dir: string, options: string) {
+  const child = spawn(
+    'unshare',
+    ['--mount', '--propagation', 'private', 'sh', '-c', `mount -t tmpfs -o ${options} sympodia-faults "$PHOTO_DIR" && exec "$0" --import tsx server/index.ts`, process.execPath],
+    { cwd: ROOT, env: { ...process.env, ...serverEnv({ PHOTO_DIR: dir }), HOST: '127.0.0.1', PORT: String(PORTS.photos) }, stdio: 'ignore' },
+  );
+  const exited = new Promise((resolve) => child.on('exit', resolve));
+  const stop = async () => {
+    if (child.exitCode === null) child.kill('SIGTERM');
+    await Promise.race([exited, sleep(12_000)]);
+    if (child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
+  };
+  let up = false;
+  for (let i = 0; i < 150 && !up && child.exitCode === null; i += 1) {
+    up = (await call(`http://127.0.0.1:${PORTS.photos}/api/health`, 'health', {}, 2000)).status === 200;
+    if (!up) await sleep(200);
+  }
+  if (!up) {
+    await stop();
+    return null;
+  }
+  return { url: `http://127.0.0.1:${PORTS.photos}`, seen: `/proc/${child.pid}/root${dir}`, child, stop };
+}
+
 /** (c) Unwritable photo folder and a full disk. */
 async function photoStoreFaults(target: Target): Promise<void> {
   console.log('\n(c) photos: an unwritable folder and a full disk');
@@ -350,23 +379,34 @@ async function photoStoreFaults(target: Target): Promise<void> {
   const image = await noisyJpeg(1);
   const isRoot = process.getuid?.() === 0;
 
-  // An unwritable folder: read-only for the server's user. Root ignores file modes, so a root
-  // run starts this server as "nobody".
+  // An unwritable folder. As root (which ignores file modes) the folder is a read-only tmpfs
+  // mounted over PHOTO_DIR in the server's own mount namespace; otherwise a folder of mode 555.
   const readOnly = fs.mkdtempSync(path.join(os.tmpdir(), 'sympodia-faults-readonly-'));
-  fs.chmodSync(readOnly, 0o555);
-  const asNobody = isRoot ? { uid: 65534, gid: 65534 } : {};
-  let server = await startServerProcess({ port: PORTS.photos, env: serverEnv({ PHOTO_DIR: readOnly }), ...asNobody });
+  let unwritable: { url: string; seen: string; child: { exitCode: number | null }; stop: () => Promise<void> };
+  if (isRoot) {
+    const own = await startInOwnMount(readOnly, 'ro,size=65536');
+    if (!own) {
+      check(false, 'the server with a read-only photo folder started');
+      fs.rmSync(readOnly, { recursive: true, force: true });
+      return;
+    }
+    unwritable = own;
+  } else {
+    fs.chmodSync(readOnly, 0o555);
+    const plain = await startServerProcess({ port: PORTS.photos, env: serverEnv({ PHOTO_DIR: readOnly }) });
+    unwritable = { url: plain.url, seen: readOnly, child: plain.child, stop: () => plain.stop() };
+  }
   try {
-    const cookie = await signIn(server.url, grower.email, DEMO_PASSWORD);
+    const cookie = await signIn(unwritable.url, grower.email, DEMO_PASSWORD);
     const before = await photoCount(target.collectionId);
-    const a = await upload(server, cookie, target, image);
+    const a = await upload({ url: unwritable.url } as ServerProcess, cookie, target, image);
     console.log(`  unwritable folder: ${a.status} ${a.code}: ${a.message}`);
     check(a.status === 503 && a.code === 'photo_storage_unavailable', 'an unwritable photo folder answers 503 photo_storage_unavailable');
     check((await photoCount(target.collectionId)) === before, 'no photo row was written');
-    check(filesUnder(readOnly).length === 0, 'no file was left in the folder');
-    check(server.child.exitCode === null, 'the server stayed up');
+    check(filesUnder(unwritable.seen).length === 0, 'no file was left in the folder');
+    check(unwritable.child.exitCode === null, 'the server stayed up');
   } finally {
-    await server.stop();
+    await unwritable.stop();
     fs.rmSync(readOnly, { recursive: true, force: true });
   }
 
@@ -382,23 +422,15 @@ async function photoStoreFaults(target: Target): Promise<void> {
   const roundUp = (bytes: number) => Math.ceil(bytes / page) * page;
   // One whole photo (display and thumb, about a quarter of display), then room for a display and a bit.
   const size = roundUp(display.length) * 2 + roundUp(display.length / 4) + 4 * page;
-  const child = spawn(
-    'unshare',
-    ['--mount', '--propagation', 'private', 'sh', '-c', `mount -t tmpfs -o size=${size} sympodia-full "$PHOTO_DIR" && exec "$0" --import tsx server/index.ts`, process.execPath],
-    { cwd: ROOT, env: { ...process.env, ...serverEnv({ PHOTO_DIR: mountPoint }), HOST: '127.0.0.1', PORT: String(PORTS.photos) }, stdio: 'ignore' },
-  );
-  const exited = new Promise((resolve) => child.on('exit', resolve));
+  const full = await startInOwnMount(mountPoint, `size=${size}`);
+  check(full !== null, 'the server with a tiny tmpfs photo folder started');
+  if (!full) {
+    fs.rmSync(mountPoint, { recursive: true, force: true });
+    return;
+  }
+  const { seen, child } = full;
   try {
-    let up = false;
-    for (let i = 0; i < 150 && !up && child.exitCode === null; i += 1) {
-      up = (await call(`http://127.0.0.1:${PORTS.photos}/api/health`, 'health', {}, 2000)).status === 200;
-      if (!up) await sleep(200);
-    }
-    check(up, 'the server with a tiny tmpfs photo folder started');
-    if (!up) return;
-    // The server's view of its photo folder (its own mount namespace).
-    const seen = `/proc/${child.pid}/root${mountPoint}`;
-    server = { url: `http://127.0.0.1:${PORTS.photos}` } as ServerProcess;
+    const server = { url: full.url } as ServerProcess;
     const cookie = await signIn(server.url, grower.email, DEMO_PASSWORD);
     const before = await photoCount(target.collectionId);
     const first = await upload(server, cookie, target, image);
@@ -420,9 +452,7 @@ async function photoStoreFaults(target: Target): Promise<void> {
     check(files.length === storedPhotos * 2 && files.every((f) => /(display|thumb)\.webp$/.test(f)), `no half-stored photo and no partial file (${files.length} files for ${storedPhotos} photos)`);
     check(child.exitCode === null, 'the server stayed up');
   } finally {
-    if (child.exitCode === null) child.kill('SIGTERM');
-    await Promise.race([exited, sleep(12_000)]);
-    if (child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
+    await full.stop();
     fs.rmSync(mountPoint, { recursive: true, force: true });
   }
 }

@@ -60,7 +60,7 @@ export function unsubscribeRoutes(ctx: AppContext): Router {
     res.type('html').send(
       page(
         'Stop the weekly digest?',
-        `<p>You will no longer get the weekly mail for <strong>${escapeHtml(name)}</strong>. You can switch it back on from the Collection screen.</p>
+        `<p>You will no longer get the weekly mail for <strong>${escapeHtml(name)}</strong>, nor its same-day cold-night warnings. You can switch both back on from the Collection screen.</p>
 <form method="post" action="/digest/unsubscribe/${escapeHtml(key.data!)}"><button type="submit">Stop the weekly digest</button></form>`,
       ),
     );
@@ -74,7 +74,7 @@ export function unsubscribeRoutes(ctx: AppContext): Router {
       res.status(404).type('html').send(page('Link not recognised', '<p>This unsubscribe link is not known.</p>'));
       return;
     }
-    res.type('html').send(page('Weekly digest stopped', `<p>You will no longer get the weekly mail for <strong>${escapeHtml(done.collectionName)}</strong>.</p>`));
+    res.type('html').send(page('Weekly digest stopped', `<p>You will no longer get the weekly mail for <strong>${escapeHtml(done.collectionName)}</strong>, nor its same-day cold-night warnings.</p>`));
   });
 
   return router;

@@ -25,9 +25,6 @@ export interface ServerProcessOptions {
   env: Record<string, string | undefined>;
   /** How long to wait for /api/health to answer 200. */
   startTimeoutMs?: number;
-  /** Run as this user and group (a root test run uses it to make a folder really unwritable). */
-  uid?: number;
-  gid?: number;
 }
 
 /**
@@ -41,8 +38,6 @@ export async function startServerProcess(options: ServerProcessOptions): Promise
     cwd: ROOT,
     env: { ...process.env, HOST: '127.0.0.1', PORT: String(options.port), LOG_LEVEL: 'warn', ...options.env },
     stdio: ['ignore', 'pipe', 'pipe'],
-    uid: options.uid,
-    gid: options.gid,
   });
   let output = '';
   child.stdout!.on('data', (chunk: Buffer) => (output += chunk.toString()));

@@ -16,7 +16,8 @@ export function DigestSetting({ collectionId }: { collectionId: string }) {
   return (
     <Card title="Weekly digest" testID="digest-setting">
       <Text color="textMuted">
-        Once a week, an e-mail listing stalled and aborted leads, sheaths to check and bloom windows opening in the next fortnight.
+        Once a week, an e-mail listing plants to bring in on cold nights, stalled and aborted leads, sheaths to check and bloom windows opening in
+        the next fortnight; and a same-day warning when a night below a plant&apos;s limit is forecast within 24 hours.
       </Text>
       <QueryState query={query} loadingLabel="Loading your digest setting…">
         {(setting) => (
