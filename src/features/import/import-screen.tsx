@@ -1,4 +1,4 @@
-import { useRouter } from 'expo-router';
+import { Link, useRouter } from 'expo-router';
 import Papa from 'papaparse';
 import { useEffect, useRef, useState } from 'react';
 import { Platform, StyleSheet, View } from 'react-native';
@@ -19,6 +19,15 @@ import { colors, radius, spacing } from '@/theme';
 type Counts = Extract<ImportProgressLine, { phase: 'done' }>['counts'];
 const NOT_IN_FILE = '';
 
+/** The way back to Collection settings, where the import is reached from. */
+function BackToCollection() {
+  return (
+    <Link href="/collection">
+      <Text color="accent">‹ Collection</Text>
+    </Link>
+  );
+}
+
 /** Import from a spreadsheet: pick a CSV, map its columns, check it, then write it all at once. */
 export function ImportScreen() {
   const { collection } = useCurrentCollection();
@@ -26,6 +35,7 @@ export function ImportScreen() {
   if (collection.role === 'viewer') {
     return (
       <Screen title="Import records" testID="import-screen">
+        <BackToCollection />
         <Card>
           <Text>Viewers can read this collection but not import into it. Ask an owner for the grower role.</Text>
         </Card>
@@ -136,6 +146,7 @@ function ImportFlow({ collectionId }: { collectionId: string }) {
 
   return (
     <Screen title="Import records" subtitle="Past records from a spreadsheet saved as CSV" testID="import-screen">
+      <BackToCollection />
       {Platform.OS !== 'web' ? (
         <Card>
           <Text>Importing a spreadsheet works in the web version of Sympodia, on a phone or a computer.</Text>
