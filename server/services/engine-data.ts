@@ -303,16 +303,33 @@ export class FingerprintMemo {
 
   async get(collectionId: string): Promise<string> {
     const hit = this.entries.get(collectionId);
-    if (hit && this.now() - hit.at < this.ttlMs) return hit.fingerprint;
+    if (hit) {
+      const age = this.now() - hit.at;
+      if (age < this.ttlMs) {
+        // Past half its life the fingerprint is read again in the background, so under steady
+        // traffic no request waits for that query and none sees one older than the TTL.
+        if (age >= this.ttlMs / 2) this.fetch(collectionId).catch(() => {});
+        return hit.fingerprint;
+      }
+    }
+    return this.fetch(collectionId);
+  }
+
+  /**
+   * Reads the fingerprint (sharing a read in flight) and remembers it, dated from when the read
+   * began (it shows the records as of then), unless the collection was forgotten meanwhile.
+   */
+  private async fetch(collectionId: string): Promise<string> {
     const generation = this.generations.get(collectionId) ?? 0;
     const inFlight = this.pending.get(collectionId);
     if (inFlight && inFlight.generation === generation) return inFlight.read;
+    const started = this.now();
     const read = this.read(collectionId);
     this.pending.set(collectionId, { generation, read });
     try {
       const fingerprint = await read;
       if ((this.generations.get(collectionId) ?? 0) === generation) {
-        this.entries.set(collectionId, { fingerprint, at: this.now() });
+        this.entries.set(collectionId, { fingerprint, at: started });
       }
       return fingerprint;
     } finally {

@@ -42,6 +42,30 @@ describe('FingerprintMemo', () => {
     expect(t.reads).toEqual(['c1', 'c1']);
   });
 
+  it('reads again in the background past half the TTL, so callers never wait on a busy collection', async () => {
+    const t = setup();
+    expect(await t.memo.get('c1')).toBe('v1');
+    t.set('v2');
+    t.tick(400);
+    expect(await t.memo.get('c1')).toBe('v1');
+    expect(t.reads).toEqual(['c1']);
+    t.tick(200); // 600 ms old: answered at once from memory, and a read starts behind it
+    t.holdNextRead();
+    expect(await t.memo.get('c1')).toBe('v1');
+    expect(t.reads).toEqual(['c1', 'c1']);
+    expect(await t.memo.get('c1')).toBe('v1'); // the read in flight is shared, not repeated
+    expect(t.reads).toEqual(['c1', 'c1']);
+    t.releaseRead();
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    expect(await t.memo.get('c1')).toBe('v2');
+    // That read began at 600 ms and is dated so: at 1,600 ms it is too old to trust, and the
+    // caller waits for a fresh one.
+    t.tick(1000);
+    t.set('v3');
+    expect(await t.memo.get('c1')).toBe('v3');
+    expect(t.reads).toEqual(['c1', 'c1', 'c1']);
+  });
+
   it('a write through this process is seen at once', async () => {
     const t = setup();
     await t.memo.get('c1');
