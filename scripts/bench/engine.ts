@@ -46,6 +46,8 @@ const SIZE = { plants: 1000, seasons: 10, leadsPerPlantPerSeason: 2, measurement
 /** Leads timed one by one for the per-lead fit figures (every k-th lead of the collection). */
 const FIT_SAMPLE = 2000;
 const CONNECTIONS = 20;
+/** Whole-collection recomputations timed after the first, as a running server does them. */
+const RECOMPUTE_RUNS = 3;
 const DURATION_S = 10;
 const HEALTH_DURATION_S = 5;
 /** Seeds of the benchmark collections the backtest is also run on (any seeds other than the demo's). */
@@ -86,7 +88,24 @@ function inMemory(today: string) {
   attentionList(slice.plants.map((p) => ({ plant: p.plant, leads: p.leads })), today);
 
   const [forecasts, forecastMs] = time(() => currentForecasts(data, today));
-  row(`forecastLead for every current lead (${forecasts.length})`, ms(forecastMs), `target ≤ ${TARGETS.wholeCollectionMs} ms`);
+  row(`forecastLead for every current lead (${forecasts.length}), first run in this process`, ms(forecastMs), `target ≤ ${TARGETS.wholeCollectionMs} ms`);
+  // As a running server recomputes after a write: the same records read afresh (new arrays, so
+  // nothing is answered from the engine's per-list memos), with the code already compiled.
+  const again: number[] = [];
+  for (let i = 0; i < RECOMPUTE_RUNS; i++) {
+    const fresh = buildEngineData({
+      plants: generated.plants,
+      leads: generated.leads,
+      measurements: generated.measurements.map((m) => ({ ...m })),
+      blooms: generated.bloomRecords.map((b) => ({ ...b })),
+    });
+    again.push(time(() => currentForecasts(fresh, today))[1]);
+  }
+  row(
+    `forecastLead for every current lead, recomputed on freshly read records (median of ${RECOMPUTE_RUNS})`,
+    `${ms(medianOf(again))} (runs: ${again.map((v) => v.toFixed(0)).join(', ')} ms)`,
+    `target ≤ ${TARGETS.wholeCollectionMs} ms`,
+  );
   const [items, attentionMs] = time(() => attentionList(data.plants.map((p) => ({ plant: p.plant, leads: p.leads })), today));
   row(`attention list over the collection (${items.length} items)`, ms(attentionMs), `target ≤ ${TARGETS.wholeCollectionMs} ms`);
 
@@ -187,7 +206,7 @@ function inMemory(today: string) {
     const g = generateCollection({ seed, today, plants: 150, seasons: SIZE.seasons, leadsPerPlantPerSeason: 2, measurementsPerLead: 15, idNamespace: 11 });
     backtestRow(`150 plants × ${SIZE.seasons} seasons, seed ${seed}`, buildEngineData({ plants: g.plants, leads: g.leads, measurements: g.measurements, blooms: g.bloomRecords }));
   }
-  return { forecastMs, attentionMs, med };
+  return { forecastMs, recomputeMs: medianOf(again), attentionMs, med };
 }
 
 // ── 2. Over HTTP ──────────────────────────────────────────────────────────────────────
@@ -281,7 +300,9 @@ async function main() {
   for (const [what, value, target] of rows) console.log(`${what.padEnd(width)}  ${value}${target ? `   [${target}]` : ''}`);
   const verdict = (ok: boolean) => (ok ? 'met' : 'NOT met');
   console.log('\nTargets');
-  console.log(`  whole collection ≤ ${TARGETS.wholeCollectionMs} ms: ${verdict(Math.max(mem.forecastMs, mem.attentionMs) <= TARGETS.wholeCollectionMs)}`);
+  console.log(
+    `  whole collection ≤ ${TARGETS.wholeCollectionMs} ms: ${verdict(Math.max(mem.forecastMs, mem.attentionMs) <= TARGETS.wholeCollectionMs)} on the first run in a process; ${verdict(mem.recomputeMs <= TARGETS.wholeCollectionMs)} recomputed`,
+  );
   console.log(`  fitter no slower than the reference: ${verdict(mem.med.domainLM <= mem.med.referenceNumeric)} (LM core vs its default), ${verdict(mem.med.domainLM <= mem.med.referenceAnalytic)} (vs analytic Jacobian)`);
   console.log(`  attention p99 ≤ ${TARGETS.attentionP99Ms} ms: ${verdict(http.attention.latency.p99 <= TARGETS.attentionP99Ms)} as served; ${verdict(http.uncached.latency.p99 <= TARGETS.attentionP99Ms)} computed every time`);
 }
