@@ -112,7 +112,7 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
               collectionId={collectionId}
               subject={{ leadId: lead.id }}
               canWrite={canWrite}
-              canDelete={(photo) => isOwner || (canWrite && photo.uploadedBy === me.data?.user.id)}
+              canDelete={(photo) => !lead.plant.historyOnly && (isOwner || (canWrite && photo.uploadedBy === me.data?.user.id))}
               attachOptions={[
                 { label: 'This lead', target: { leadId: lead.id } },
                 ...(last ? [{ label: `Measurement of ${formatDate(last.date)}`, target: { measurementId: last.id } }] : []),
@@ -131,7 +131,7 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
               collectionId={collectionId}
               measurements={lead.measurements}
               units={units}
-              canDelete={(m) => isOwner || (canWrite && m.createdBy === me.data?.user.id)}
+              canDelete={(m) => !lead.plant.historyOnly && (isOwner || (canWrite && m.createdBy === me.data?.user.id))}
             />
           </Card>
           <Card title="Bloom">
