@@ -74,6 +74,8 @@ test('a grower gives a division away; the recipient follows the mailed link, sig
   await expect(history.getByTestId('lead-link-2026-A')).toHaveCount(0);
   await expect(history.getByTestId('edit-plant')).toHaveCount(0);
   await expect(history.getByTestId('add-lead')).toHaveCount(0);
+  // …but its owner may still drop it.
+  await expect(history.getByTestId('delete-plant')).toContainText('Delete this history copy');
   await keepScreenshot(page, 'handoff-history', info.project.name);
 
   // The link worked once.

@@ -179,8 +179,12 @@ export async function updatePlant(db: Database, collectionId: string, plantId: s
 }
 
 /** Leads, measurements, bloom records and care entries go with the plant; divisions keep theirs. */
+/**
+ * Deletes a plant with its records (owners only, by the route). A read-only history copy may be
+ * deleted too: it is the owner's to keep or drop, and a division that inherited from it simply
+ * loses that history (its parent link is cleared).
+ */
 export async function deletePlant(db: Database, collectionId: string, plantId: string): Promise<void> {
-  await assertWritablePlant(db, collectionId, plantId);
   const deleted = await db
     .delete(plants)
     .where(and(eq(plants.id, plantId), eq(plants.collectionId, collectionId)))

@@ -369,7 +369,6 @@ describe('the history copy is read-only', () => {
     const c = recipient.client;
     const attempts = [
       await c.patch(at(`/plants/${history.id}`), { version: history.version, medium: 'sphagnum' }),
-      await c.delete(at(`/plants/${history.id}`)),
       await c.post(at(`/plants/${history.id}/divide`), { dividedOn: daysAgo(1), pieces: [{ tag: 'X-1', bulbCount: 3 }] }),
       await c.post(at(`/plants/${history.id}/leads`), { season: 2026, label: 'new', firstSeen: daysAgo(3), status: 'growing' }),
       await c.post(at(`/plants/${history.id}/care`), { kind: 'water', occurredOn: daysAgo(1) }),
@@ -402,6 +401,30 @@ describe('the history copy is read-only', () => {
     const ownLead = copy.leads[0];
     const measured = await c.post(at(`/leads/${ownLead.id}/measurements`), { date: daysAgo(0), heightMm: 30 });
     expect(measured.status, JSON.stringify(measured.body)).toBe(201);
+  });
+});
+
+describe('deleting a history copy', () => {
+  it('is the owner\'s choice: the copy and its records go, the division stays without the inherited seasons', async () => {
+    const { w, division } = await lineageWorld();
+    const recipient = await person('Cai Moreno');
+    const { token } = await send(w, division.id, recipient.email);
+    const accepted = (await recipient.client.post(`/api/handoffs/${token}/accept`, { collectionId: recipient.collectionId })).body;
+    const at = (p: string) => `/api/collections/${recipient.collectionId}${p}`;
+    const copy = (await recipient.client.get(at(`/plants/${accepted.plantId}`))).body;
+    const historyId = copy.parentPlantId as string;
+    expect(historyId).toBeTruthy();
+    const historyLeads = (await recipient.client.get(at(`/plants/${historyId}`))).body.leads.length;
+    expect(historyLeads).toBeGreaterThan(0);
+
+    const res = await recipient.client.delete(at(`/plants/${historyId}`));
+    expect(res.status, JSON.stringify(res.body)).toBe(204);
+    expect((await recipient.client.get(at(`/plants/${historyId}`))).status).toBe(404);
+    const after = (await recipient.client.get(at(`/plants/${accepted.plantId}`))).body;
+    expect(after.parentPlantId).toBeNull();
+    expect(after.leads.length).toBe(copy.leads.length);
+    // The giver's records are untouched.
+    expect((await w.owner.get(w.at(`/plants/${division.id}`))).status).toBe(200);
   });
 });
 

@@ -51,6 +51,8 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
   const { collectionId, isOwner, units, seasonStartMonth } = settings;
   // A read-only copy of another grower's record takes no writes at all.
   const canWrite = settings.canWrite && !plant.historyOnly;
+  // A history copy takes no writes, but its owner may still drop it.
+  const canDeleteHistory = plant.historyOnly && isOwner;
   const me = useMeQuery();
   const areas = useAreasQuery(collectionId);
   const remove = useDeletePlantMutation(collectionId);
@@ -71,7 +73,7 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
       <HandoffBanner plant={plant} />
       <Columns>
         <Column>
-          {facts.length > 0 || plant.notes || canWrite ? (
+          {facts.length > 0 || plant.notes || canWrite || canDeleteHistory ? (
             <Card>
               {facts.map((fact) => (
                 <Text key={fact as string}>{fact}</Text>
@@ -85,12 +87,21 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
                   {isOwner ? <Button label="Delete" tone="danger" onPress={() => setPanel('delete')} testID="delete-plant" /> : null}
                 </View>
               ) : null}
+              {canDeleteHistory && panel !== 'delete' ? (
+                <View style={styles.actions}>
+                  <Button label="Delete this history copy" tone="danger" onPress={() => setPanel('delete')} testID="delete-plant" />
+                </View>
+              ) : null}
               {panel === 'lead' ? <AddLeadForm collectionId={collectionId} plantId={plant.id} leads={plant.leads} seasonStartMonth={seasonStartMonth} onDone={close} /> : null}
               {panel === 'edit' ? <EditPlantForm collectionId={collectionId} plant={plant} areas={areas.data ?? []} onDone={close} /> : null}
               {panel === 'divide' ? <DivideForm collectionId={collectionId} plant={plant} onDone={close} /> : null}
               {panel === 'delete' ? (
                 <Confirm
-                  message={`Delete ${plant.tag} with all its leads, measurements and care history? This cannot be undone.`}
+                  message={
+                    plant.historyOnly
+                      ? `Delete ${plant.tag}, the read-only history that came with a division? The division keeps its own records but its forecasts lose these earlier seasons. This cannot be undone.`
+                      : `Delete ${plant.tag} with all its leads, measurements and care history? This cannot be undone.`
+                  }
                   confirmLabel="Delete plant"
                   busy={remove.isPending}
                   onCancel={close}
