@@ -13,10 +13,16 @@ test('a grower adds a plant and a lead, records three measurements, marks the sh
   await page.getByTestId('plant-epithet').fill('Tidewater Glow');
   await page.getByTestId('plant-clonal').fill('Morning');
   await page.getByTestId('plant-medium').fill('bark');
+  await expect(page.getByText('Blank uses the C. default of 13 °C.')).toBeVisible();
+  await page.getByTestId('plant-min-night').fill('11.5');
   await page.getByTestId('save-plant').click();
 
   await expect(page.getByTestId('plant-screen')).toBeVisible();
   await expect(page.getByTestId('plant-screen').getByText("C. Tidewater Glow 'Morning'")).toBeVisible();
+  // The night limit typed when the plant was added is the one its edit form shows.
+  await page.getByTestId('edit-plant').click();
+  await expect(page.getByTestId('plant-min-night')).toHaveValue('11.5');
+  await page.getByTestId('plant-screen').getByRole('button', { name: 'Cancel' }).click();
 
   await page.getByTestId('add-lead').click();
   await page.getByTestId('lead-first-seen').fill(daysAgo(40));

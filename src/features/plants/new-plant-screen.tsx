@@ -9,6 +9,8 @@ import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { Chip } from '@/components/chip';
 import { FormTextField } from '@/components/form-text-field';
+import { TextField } from '@/components/text-field';
+import { genusDefaultsFor } from '@/domain/genus-defaults';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
 import { COMMON_GENERA, COMMON_MEDIA } from '@/shared/genera';
@@ -20,7 +22,31 @@ import { applyServerErrors } from '../auth/use-server-errors';
 import { useCollectionSettings } from '../collections/use-collection-settings';
 
 type Values = z.input<typeof plantInputSchema>;
-const FIELDS = ['tag', 'genus', 'epithet', 'clonalName', 'source', 'acquiredOn', 'areaId', 'medium', 'notes'] as const;
+const FIELDS = ['tag', 'genus', 'epithet', 'clonalName', 'source', 'acquiredOn', 'areaId', 'medium', 'notes', 'minNightTempC'] as const;
+
+/**
+ * The plant's own lowest night temperature, typed as text: blank is the genus default (null),
+ * a number is kept, anything else goes to the schema as NaN so its message is shown.
+ */
+function NightLimitField({ genus, onChange, error }: { genus: string; onChange: (value: number | null) => void; error?: string }) {
+  const [text, setText] = useState('');
+  const defaultC = genusDefaultsFor(genus.trim()).minNightTempC;
+  return (
+    <TextField
+      label="Lowest night temperature, °C (optional)"
+      value={text}
+      onChangeText={(next) => {
+        setText(next);
+        const trimmed = next.trim().replace(',', '.');
+        onChange(trimmed === '' ? null : Number(trimmed));
+      }}
+      inputMode="decimal"
+      hint={`Bring in below this. Blank uses the ${genus.trim() || 'genus'} default of ${defaultC} °C.`}
+      error={error}
+      testID="plant-min-night"
+    />
+  );
+}
 
 export function NewPlantScreen() {
   const router = useRouter();
@@ -111,6 +137,13 @@ export function NewPlantScreen() {
           <FormTextField control={control} name="medium" label="Medium" testID="plant-medium" />
           <FormTextField control={control} name="source" label="Source (optional)" />
           <FormTextField control={control} name="acquiredOn" label="Acquired on (optional)" hint="YYYY-MM-DD" />
+          <Controller
+            control={control}
+            name="minNightTempC"
+            render={({ field, fieldState }) => (
+              <NightLimitField genus={preview.genus ?? ''} onChange={field.onChange} error={fieldState.error?.message} />
+            )}
+          />
           <FormTextField control={control} name="notes" label="Notes (optional)" multiline numberOfLines={3} />
           <Button label="Save plant" onPress={submit} loading={formState.isSubmitting} testID="save-plant" />
         </View>
