@@ -1,4 +1,5 @@
 import { once } from 'node:events';
+import { IMPORT_FIELDS } from '@/shared/import/fields';
 import type { Writable } from 'node:stream';
 import { ZipArchive } from 'archiver';
 import { asc, eq } from 'drizzle-orm';
@@ -238,25 +239,8 @@ export function exportFileName(collectionName: string, now: Date, extension: 'zi
 
 // ── The CSV files ─────────────────────────────────────────────────────────────────────
 
-/** Columns of the flat sheet, exactly the field names the spreadsheet import knows. */
-export const RECORDS_COLUMNS = [
-  'tag',
-  'genus',
-  'epithet',
-  'clonal_name',
-  'lead',
-  'season',
-  'date',
-  'height_mm',
-  'leaves',
-  'sheath',
-  'root_tips',
-  'buds_seen',
-  'first_open',
-  'last_faded',
-  'flowers',
-  'spikes',
-] as const;
+/** Columns of the flat sheet: the spreadsheet import's own field names, so it maps itself. */
+export const RECORDS_COLUMNS = IMPORT_FIELDS;
 
 export interface CsvFile {
   name: string;
