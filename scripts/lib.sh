@@ -22,5 +22,5 @@ ensure_chromium() {
 
 build_web() {
   echo "[build] exporting the web app to dist/"
-  (cd "$root" && CI=1 expo export --platform web --output-dir dist >/dev/null)
+  (cd "$root" && CI=1 expo export --platform web --output-dir dist --source-maps >/dev/null && node scripts/web/postbuild.mjs dist)
 }

@@ -1,4 +1,3 @@
-import fs from 'node:fs';
 import path from 'node:path';
 import compression from 'compression';
 import express, { type Express } from 'express';
@@ -36,6 +35,7 @@ import type { FakeSmtpServer } from './mail/fake-smtp';
 import type { Mailer } from './mail/mailer';
 import { coldNightRoutes, fakeWeatherRoutes } from './routes/cold-nights';
 import { NO_WEATHER, type WeatherClient } from './weather/client';
+import { serveWebBuild } from './web/serve-build';
 import type { FakeWeatherServer } from './weather/fake-weather';
 
 export const JSON_BODY_LIMIT = '100kb';
@@ -173,31 +173,8 @@ export function createApp(options: AppOptions): Express {
   if (options.mailbox) app.use(mailboxRoutes(options.mailbox));
   if (options.weatherFake) app.use(fakeWeatherRoutes(options.weatherFake, ctx.weather));
 
-  if (options.webRoot) serveWebBuild(app, options.webRoot);
+  if (options.webRoot) serveWebBuild(app, options.webRoot, ctx, logger);
 
   app.use(errorHandler(logger));
   return app;
-}
-
-/** Serves the exported single-page app: real files first, then index.html for any route. */
-function serveWebBuild(app: Express, webRoot: string): void {
-  const indexFile = path.join(webRoot, 'index.html');
-  if (!fs.existsSync(indexFile)) throw new Error(`No web build at ${webRoot}; run npm run build:web`);
-  app.use(
-    express.static(webRoot, {
-      index: false,
-      setHeaders: (res, file) => {
-        // Hashed bundles never change; everything else is revalidated.
-        if (file.includes(`${path.sep}_expo${path.sep}`) || file.includes(`${path.sep}assets${path.sep}`)) {
-          res.set('Cache-Control', 'public, max-age=31536000, immutable');
-        }
-      },
-    }),
-  );
-  app.get('/{*splat}', (req, res, next) => {
-    // A missing file (a name with an extension) is a 404, not the app's page in its place.
-    if (/\.[a-z0-9]+$/i.test(req.path)) return next(new HttpError(404, 'not_found', `No file ${req.path}`));
-    res.set('Cache-Control', 'no-cache');
-    res.sendFile(indexFile);
-  });
 }

@@ -7,6 +7,7 @@
 import { execFile, execFileSync } from 'node:child_process';
 import { promisify } from 'node:util';
 import type { AddressInfo } from 'node:net';
+import fs from 'node:fs';
 import path from 'node:path';
 import pino from 'pino';
 import postgres from 'postgres';
@@ -58,6 +59,11 @@ function medianOf(runs: Figures[]): Figures {
 const TARGETS = { score: 90, lcpMs: 2500, firstScreenJsKb: 400 };
 
 async function main() {
+  // Debian's Chromium, installed as the test command installs it when a machine has none.
+  execFileSync('bash', ['-c', `source "${path.join(ROOT, 'scripts/lib.sh')}" && ensure_chromium`], { stdio: 'inherit' });
+  if (!fs.existsSync(path.join(WEB_ROOT, 'route-chunks.json'))) {
+    throw new Error(`${WEB_ROOT} is not a finished build (no route-chunks.json): run npm run build:web first`);
+  }
   execFileSync('bash', [path.join(ROOT, 'scripts/db.sh'), 'start', 'test'], { stdio: 'inherit' });
   const admin = postgres(ADMIN_URL, { max: 1, onnotice: () => {} });
   await admin.unsafe(`drop database if exists ${DATABASE} with (force)`);

@@ -1,7 +1,7 @@
 import { eq } from 'drizzle-orm';
 import { Router } from 'express';
 import { generateIdFromEntropySize } from 'lucia';
-import { meSchema, signInInputSchema, signUpInputSchema, type Me } from '@/shared/schemas/auth';
+import { signInInputSchema, signUpInputSchema } from '@/shared/schemas/auth';
 import { users } from '../../db/schema';
 import { hashPassword, verifyPassword } from '../auth';
 import type { AppContext } from '../context';
@@ -10,7 +10,8 @@ import { requireUser } from '../middleware/access';
 import { consume, limitByIp } from '../middleware/rate-limit';
 import { setSessionCookie } from '../middleware/session';
 import { isCommonPassword } from '../passwords';
-import { collectionsOf, createCollectionFor } from '../services/collections';
+import { createCollectionFor } from '../services/collections';
+import { describeMe } from '../services/me';
 import { parse } from '../validate';
 
 const UNIQUE_VIOLATION = '23505';
@@ -19,9 +20,7 @@ export function authRoutes(ctx: AppContext): Router {
   const { db, auth, rateLimits } = ctx;
   const router = Router();
 
-  async function me(user: { id: string; email: string; displayName: string }): Promise<Me> {
-    return meSchema.parse({ user: { id: user.id, email: user.email, displayName: user.displayName }, collections: await collectionsOf(db, user.id) });
-  }
+  const me = (user: { id: string; email: string; displayName: string }) => describeMe(db, user);
 
   router.post('/auth/sign-up', limitByIp(rateLimits.authIp), async (req, res) => {
     const input = parse(signUpInputSchema, req.body);

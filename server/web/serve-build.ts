@@ -1,0 +1,86 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Express, Request, Response } from 'express';
+import expressStaticGzip from 'express-static-gzip';
+import type { Logger } from 'pino';
+import type { Me } from '@/shared/schemas/auth';
+import { BOOT_ELEMENT_ID } from '@/shared/boot';
+import type { AppContext } from '../context';
+import { HttpError } from '../errors';
+import { setSessionCookie } from '../middleware/session';
+import { describeMe } from '../services/me';
+import { routeChunks, type RouteChunkManifest } from './route-chunks';
+
+/** `<`, U+2028 and U+2029 written as escapes, so the JSON cannot end its script element early. */
+function jsonForScript(value: unknown): string {
+  return JSON.stringify(value).replace(/</g, '\\u003c').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
+}
+
+function readManifest(webRoot: string): RouteChunkManifest {
+  const file = path.join(webRoot, 'route-chunks.json');
+  if (!fs.existsSync(file)) return {};
+  return JSON.parse(fs.readFileSync(file, 'utf8')) as RouteChunkManifest;
+}
+
+/**
+ * Serves the exported single-page app: real files first (Brotli or gzip files written at build
+ * time when the browser takes them), then index.html for any route. The page names the chunks
+ * its route loads as preloads, and carries who is signed in, so the first screen does not wait
+ * for a session request after the bundle has run.
+ */
+export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContext, 'db' | 'auth'>, logger: Logger): void {
+  const indexFile = path.join(webRoot, 'index.html');
+  if (!fs.existsSync(indexFile)) throw new Error(`No web build at ${webRoot}; run npm run build:web`);
+  const template = fs.readFileSync(indexFile, 'utf8');
+  const chunksFor = routeChunks(readManifest(webRoot));
+
+  app.use(
+    expressStaticGzip(webRoot, {
+      index: false,
+      enableBrotli: true,
+      orderPreference: ['br', 'gzip'],
+      serveStatic: {
+        index: false,
+        setHeaders: (res, file) => {
+          // Hashed bundles never change; everything else is revalidated.
+          if (file.includes(`${path.sep}_expo${path.sep}`) || file.includes(`${path.sep}assets${path.sep}`)) {
+            res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+          }
+        },
+      },
+    }),
+  );
+
+  /** Who is signed in: `null` for nobody, `undefined` when it cannot be told now (the page then asks itself). */
+  async function signedIn(req: Request, res: Response): Promise<Me | null | undefined> {
+    const sessionId = ctx.auth.readSessionCookie(req.headers.cookie ?? '');
+    if (!sessionId) return null;
+    try {
+      const { session, user } = await ctx.auth.validateSession(sessionId);
+      if (!session) {
+        setSessionCookie(ctx.auth, req, res, null);
+        return null;
+      }
+      if (session.fresh) setSessionCookie(ctx.auth, req, res, session.id);
+      return await describeMe(ctx.db, user);
+    } catch (error) {
+      logger.warn({ err: error }, 'page served without the session: it could not be read');
+      return undefined;
+    }
+  }
+
+  app.get('/{*splat}', async (req, res, next) => {
+    // A missing file (a name with an extension) is a 404, not the app's page in its place.
+    if (/\.[a-z0-9]+$/i.test(req.path)) return next(new HttpError(404, 'not_found', `No file ${req.path}`));
+    const me = await signedIn(req, res);
+    const head = [
+      // Low, as the deferred bundle they follow is: the bundle runs first, so they must not take its bandwidth.
+      ...chunksFor(req.path).map((href) => `<link rel="preload" as="script" fetchpriority="low" href="${encodeURI(href)}">`),
+      me === undefined ? '' : `<script type="application/json" id="${BOOT_ELEMENT_ID}">${jsonForScript({ me })}</script>`,
+    ].join('');
+    // The page now carries the person's name and collections: never shared, never stored.
+    res.set('Cache-Control', 'private, no-store');
+    res.set('Vary', 'Cookie');
+    res.type('html').send(template.includes('</head>') ? template.replace('</head>', `${head}</head>`) : head + template);
+  });
+}
