@@ -5,6 +5,8 @@
 // - zod's namespace of ~50 translated error-message locales replaced by English alone.
 //   `export * as locales` in zod's entries keeps them all in the bundle (Metro does not drop
 //   unused namespace re-exports); the app never selects another locale.
+// - likewise zod's JSON Schema conversion and its ahead-of-time compiler (about 70 KB
+//   minified, in the chunk every screen loads), which the app never calls.
 const path = require('node:path');
 const { getDefaultConfig } = require('expo/metro-config');
 
@@ -16,11 +18,21 @@ config.resolver.assetExts = [...config.resolver.assetExts, 'woff2'];
 
 const ZOD_LOCALES_EN = path.join(__dirname, 'scripts', 'metro', 'zod-locales-en.js');
 const ZOD_ENTRY = /node_modules[\\/]zod[\\/]v4[\\/](classic[\\/]external|mini[\\/]external|core[\\/]index)\.js$/;
+const ZOD_FILE = /node_modules[\\/]zod[\\/]v4[\\/]/;
+const ZOD_STAND_INS = {
+  'to-json-schema.js': path.join(__dirname, 'scripts', 'metro', 'zod-without-json-schema.js'),
+  'json-schema-processors.js': path.join(__dirname, 'scripts', 'metro', 'zod-without-json-schema.js'),
+  'json-schema-generator.js': path.join(__dirname, 'scripts', 'metro', 'zod-without-json-schema.js'),
+  'from-json-schema.js': path.join(__dirname, 'scripts', 'metro', 'zod-without-json-schema.js'),
+  'compile.js': path.join(__dirname, 'scripts', 'metro', 'zod-without-compiler.js'),
+};
 const upstreamResolve = config.resolver.resolveRequest;
 config.resolver.resolveRequest = (context, moduleName, platform) => {
   if (moduleName === '../locales/index.js' && ZOD_ENTRY.test(context.originModulePath)) {
     return { type: 'sourceFile', filePath: ZOD_LOCALES_EN };
   }
+  const standIn = ZOD_FILE.test(context.originModulePath) && /^\.\.?\//.test(moduleName) ? ZOD_STAND_INS[path.basename(moduleName)] : undefined;
+  if (standIn) return { type: 'sourceFile', filePath: standIn };
   return (upstreamResolve ?? context.resolveRequest)(context, moduleName, platform);
 };
 

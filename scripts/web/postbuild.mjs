@@ -37,7 +37,7 @@ if (process.env.KEEP_SOURCE_MAPS !== '1') {
 }
 
 // 3. Precompress. index.html is left out: the server writes a page's preloads into it.
-const COMPRESSIBLE = /\.(js|css|json|wasm|svg|ico|ttf|otf|txt|map)$/;
+const COMPRESSIBLE = /\.(js|css|json|wasm|svg|ico|ttf|otf|txt)$/;
 const brotli = promisify(zlib.brotliCompress);
 const gzip = promisify(zlib.gzip);
 const files = [];
