@@ -6,11 +6,15 @@ export function localToday(now: Date = new Date()): string {
   return `${y}-${m}-${d}`;
 }
 
+let dayMonthYear: Intl.DateTimeFormat | undefined;
+
 /** A calendar date written for people, e.g. "14 Mar 2026". */
 export function formatDate(date: string | null | undefined): string {
   if (!date) return '—';
   const [y, m, d] = date.split('-').map(Number);
-  return new Date(Date.UTC(y, m - 1, d)).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+  // One formatter, made on first use: building one costs more than formatting with it.
+  dayMonthYear ??= new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+  return dayMonthYear.format(new Date(Date.UTC(y, m - 1, d)));
 }
 
 /** The growth year a date falls in, for a collection whose season starts in `startMonth`. */

@@ -1,6 +1,10 @@
-/** A calendar date written out for people, e.g. "Tuesday 1 December 2026". */
+let longDate: Intl.DateTimeFormat | undefined;
+
+/** A calendar date written out for people, e.g. "Tuesday, 1 December 2026". */
 export function formatLongDate(date: Date): string {
-  return date.toLocaleDateString('en-GB', { weekday: 'long', day: 'numeric', month: 'long', year: 'numeric' });
+  // One formatter, made on first use: building one costs more than formatting with it.
+  longDate ??= new Intl.DateTimeFormat('en-GB', { weekday: 'long', day: 'numeric', month: 'long', year: 'numeric' });
+  return longDate.format(date);
 }
 
 const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];

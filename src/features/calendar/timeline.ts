@@ -60,20 +60,25 @@ export function monthStarts(from: string, to: string): string[] {
   return starts;
 }
 
+/** Formatters made on first use and kept: building one costs more than formatting with it. */
+const formatters = new Map<string, Intl.DateTimeFormat>();
+function formatter(key: string, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
+  let made = formatters.get(key);
+  if (!made) formatters.set(key, (made = new Intl.DateTimeFormat('en-GB', { ...options, timeZone: 'UTC' })));
+  return made;
+}
+
 export function monthLabel(date: string, withYear: boolean): string {
   const [y, m] = date.split('-').map(Number);
-  return new Date(Date.UTC(y, m - 1, 1)).toLocaleDateString('en-GB', { month: 'short', year: withYear ? 'numeric' : undefined, timeZone: 'UTC' });
+  const f = withYear ? formatter('month-year', { month: 'short', year: 'numeric' }) : formatter('month', { month: 'short' });
+  return f.format(new Date(Date.UTC(y, m - 1, 1)));
 }
 
 /** "6 Dec", or "6 Dec 2027" when the year differs from the reference year. */
 export function shortDate(date: string, referenceYear: number): string {
   const [y, m, d] = date.split('-').map(Number);
-  return new Date(Date.UTC(y, m - 1, d)).toLocaleDateString('en-GB', {
-    day: 'numeric',
-    month: 'short',
-    year: y === referenceYear ? undefined : 'numeric',
-    timeZone: 'UTC',
-  });
+  const f = y === referenceYear ? formatter('day-month', { day: 'numeric', month: 'short' }) : formatter('day-month-year', { day: 'numeric', month: 'short', year: 'numeric' });
+  return f.format(new Date(Date.UTC(y, m - 1, d)));
 }
 
 export type ChanceBand = 'likely' | 'possible' | 'unlikely';
