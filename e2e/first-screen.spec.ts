@@ -39,3 +39,19 @@ test('a signed-out visit to Today goes straight to sign-in', async ({ page }) =>
   await expect(page.getByTestId('sign-in-email')).toBeVisible();
   expect(sessionRequests).toEqual([]);
 });
+
+test('a lead page fetches each of its chunks once: the preloads are the requests the router makes', async ({ page }) => {
+  await signInAs(page, 'grower');
+  await page.locator('[data-testid^="attention-item-"]').first().click();
+  await expect(page.getByTestId('lead-screen')).toBeVisible();
+  const requested: string[] = [];
+  page.on('request', (request) => {
+    if (request.resourceType() === 'script') requested.push(request.url());
+  });
+  await page.reload();
+  await expect(page.getByTestId('lead-screen')).toBeVisible();
+  await page.waitForLoadState('networkidle');
+  expect(requested.some((url) => url.includes('/[leadId]-') || url.includes('/%5BleadId%5D-'))).toBe(true);
+  expect(requested.filter((url, i) => requested.indexOf(url) !== i)).toEqual([]);
+  expect(requested.filter((url) => url.includes('%5B'))).toEqual([]);
+});

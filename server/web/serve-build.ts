@@ -11,6 +11,11 @@ import { setSessionCookie } from '../middleware/session';
 import { describeMe } from '../services/me';
 import { routeChunks, type RouteChunkManifest } from './route-chunks';
 
+/** A value for a double-quoted HTML attribute. */
+function attribute(value: string): string {
+  return value.replace(/&/g, '&amp;').replace(/"/g, '&quot;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+}
+
 /** `<`, U+2028 and U+2029 written as escapes, so the JSON cannot end its script element early. */
 function jsonForScript(value: unknown): string {
   return JSON.stringify(value).replace(/</g, '\\u003c').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
@@ -75,7 +80,9 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
     const me = await signedIn(req, res);
     const head = [
       // Low, as the deferred bundle they follow is: the bundle runs first, so they must not take its bandwidth.
-      ...chunksFor(req.path).map((href) => `<link rel="preload" as="script" fetchpriority="low" href="${encodeURI(href)}">`),
+      // The href exactly as the router's loader will ask for it (brackets and all), or the browser
+      // would not match the two and would fetch the chunk twice.
+      ...chunksFor(req.path).map((href) => `<link rel="preload" as="script" fetchpriority="low" href="${attribute(href)}">`),
       me === undefined ? '' : `<script type="application/json" id="${BOOT_ELEMENT_ID}">${jsonForScript({ me })}</script>`,
     ].join('');
     // The page now carries the person's name and collections: never shared, never stored.
