@@ -1,3 +1,5 @@
+import { MONTH_ABBREVIATIONS } from './format';
+
 /** Today's local calendar date as `YYYY-MM-DD` (the grower's own day, not UTC's). */
 export function localToday(now: Date = new Date()): string {
   const y = now.getFullYear();
@@ -6,15 +8,11 @@ export function localToday(now: Date = new Date()): string {
   return `${y}-${m}-${d}`;
 }
 
-let dayMonthYear: Intl.DateTimeFormat | undefined;
-
-/** A calendar date written for people, e.g. "14 Mar 2026". */
+/** A calendar date written for people, e.g. "14 Mar 2026" (see format.ts on why not Intl). */
 export function formatDate(date: string | null | undefined): string {
   if (!date) return '—';
   const [y, m, d] = date.split('-').map(Number);
-  // One formatter, made on first use: building one costs more than formatting with it.
-  dayMonthYear ??= new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
-  return dayMonthYear.format(new Date(Date.UTC(y, m - 1, d)));
+  return `${d} ${MONTH_ABBREVIATIONS[m - 1]} ${y}`;
 }
 
 /** The growth year a date falls in, for a collection whose season starts in `startMonth`. */

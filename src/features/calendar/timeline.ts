@@ -1,3 +1,4 @@
+import { MONTH_ABBREVIATIONS } from '@/lib/format';
 import { colors } from '@/theme';
 
 /*
@@ -60,25 +61,16 @@ export function monthStarts(from: string, to: string): string[] {
   return starts;
 }
 
-/** Formatters made on first use and kept: building one costs more than formatting with it. */
-const formatters = new Map<string, Intl.DateTimeFormat>();
-function formatter(key: string, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
-  let made = formatters.get(key);
-  if (!made) formatters.set(key, (made = new Intl.DateTimeFormat('en-GB', { ...options, timeZone: 'UTC' })));
-  return made;
-}
-
+/** "Jan", or "Jan 2027" with the year (see lib/format.ts on why not Intl). */
 export function monthLabel(date: string, withYear: boolean): string {
   const [y, m] = date.split('-').map(Number);
-  const f = withYear ? formatter('month-year', { month: 'short', year: 'numeric' }) : formatter('month', { month: 'short' });
-  return f.format(new Date(Date.UTC(y, m - 1, 1)));
+  return withYear ? `${MONTH_ABBREVIATIONS[m - 1]} ${y}` : MONTH_ABBREVIATIONS[m - 1];
 }
 
 /** "6 Dec", or "6 Dec 2027" when the year differs from the reference year. */
 export function shortDate(date: string, referenceYear: number): string {
   const [y, m, d] = date.split('-').map(Number);
-  const f = y === referenceYear ? formatter('day-month', { day: 'numeric', month: 'short' }) : formatter('day-month-year', { day: 'numeric', month: 'short', year: 'numeric' });
-  return f.format(new Date(Date.UTC(y, m - 1, d)));
+  return y === referenceYear ? `${d} ${MONTH_ABBREVIATIONS[m - 1]}` : `${d} ${MONTH_ABBREVIATIONS[m - 1]} ${y}`;
 }
 
 export type ChanceBand = 'likely' | 'possible' | 'unlikely';
