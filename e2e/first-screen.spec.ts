@@ -1,11 +1,26 @@
+import type { Page } from '@playwright/test';
 import { signInAs } from './support/session';
 import { expect, test } from './support/fixtures';
 
 // What the page does for a slow phone before the first screen draws: scripts come
 // precompressed, the route's chunks are named up front, and the session rides in the page.
 
+/** Every request the page makes from now on, by URL, and the hrefs it preloads as `as`. */
+function watchRequests(page: Page) {
+  const urls: string[] = [];
+  page.on('request', (request) => urls.push(request.url()));
+  return {
+    urls,
+    /** URLs asked for more than once: a preload the page's own request did not match. */
+    twice: () => urls.filter((url, i) => urls.indexOf(url) !== i),
+    preloads: (as: string) =>
+      page.locator(`link[rel="preload"][as="${as}"]`).evaluateAll((links) => links.map((l) => (l as HTMLLinkElement).href)),
+  };
+}
+
 test('a signed-in reload draws Today without asking who is signed in, from Brotli-compressed scripts', async ({ page }) => {
   await signInAs(page, 'grower');
+  const requests = watchRequests(page);
   const sessionRequests: string[] = [];
   const scripts: Array<{ url: string; encoding: string | undefined }> = [];
   page.on('request', (request) => {
@@ -27,6 +42,11 @@ test('a signed-in reload draws Today without asking who is signed in, from Brotl
   expect(bundles).toHaveLength(2);
   for (const bundle of bundles) expect(bundle.encoding, bundle.url).toBe('br');
   for (const href of preloads) expect(scripts.map((s) => s.url)).toContain(href);
+  // Today's first API requests left with the page, and the screen took their answers.
+  await page.waitForLoadState('networkidle');
+  const fetches = await requests.preloads('fetch');
+  expect(fetches.map((href) => new URL(href).pathname.split('/').at(-1))).toEqual(['attention', 'cold-nights']);
+  expect(requests.twice()).toEqual([]);
 });
 
 test('a signed-out visit to Today goes straight to sign-in', async ({ page }) => {
@@ -40,18 +60,16 @@ test('a signed-out visit to Today goes straight to sign-in', async ({ page }) =>
   expect(sessionRequests).toEqual([]);
 });
 
-test('a lead page fetches each of its chunks once: the preloads are the requests the router makes', async ({ page }) => {
+test('a lead page fetches each chunk and record once: the preloads are the requests the page makes', async ({ page }) => {
   await signInAs(page, 'grower');
   await page.locator('[data-testid^="attention-item-"]').first().click();
   await expect(page.getByTestId('lead-screen')).toBeVisible();
-  const requested: string[] = [];
-  page.on('request', (request) => {
-    if (request.resourceType() === 'script') requested.push(request.url());
-  });
+  const requests = watchRequests(page);
   await page.reload();
   await expect(page.getByTestId('lead-screen')).toBeVisible();
   await page.waitForLoadState('networkidle');
-  expect(requested.some((url) => url.includes('/[leadId]-') || url.includes('/%5BleadId%5D-'))).toBe(true);
-  expect(requested.filter((url, i) => requested.indexOf(url) !== i)).toEqual([]);
-  expect(requested.filter((url) => url.includes('%5B'))).toEqual([]);
+  expect(requests.urls.some((url) => url.includes('/[leadId]-') || url.includes('/%5BleadId%5D-'))).toBe(true);
+  expect(requests.urls.filter((url) => url.includes('%5B'))).toEqual([]);
+  expect(await requests.preloads('fetch')).toHaveLength(3);
+  expect(requests.twice()).toEqual([]);
 });

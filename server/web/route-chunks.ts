@@ -12,6 +12,8 @@ interface Screen {
   file: string;
   /** URL segments: a literal, `null` for one dynamic segment, `'*'` for a catch-all. */
   segments: Array<string | null>;
+  /** The parameter name of each dynamic segment (undefined for literals). */
+  names: Array<string | undefined>;
   /** More literal segments rank first, as Expo Router prefers /plants/new over /plants/[plantId]. */
   rank: number;
 }
@@ -26,10 +28,10 @@ function screensOf(manifest: RouteChunkManifest): Screen[] {
     const parts = file.replace(/\.[jt]sx?$/, '').split('/');
     const name = parts.at(-1)!;
     if (name === '_layout' || name.startsWith('+')) continue;
-    const segments = parts
-      .filter((part, i) => !GROUP.test(part) && !(i === parts.length - 1 && part === 'index'))
-      .map((part) => (CATCH_ALL.test(part) ? '*' : DYNAMIC.test(part) ? null : part));
-    screens.push({ file, segments, rank: segments.filter((s) => s !== null && s !== '*').length });
+    const kept = parts.filter((part, i) => !GROUP.test(part) && !(i === parts.length - 1 && part === 'index'));
+    const segments = kept.map((part) => (CATCH_ALL.test(part) ? '*' : DYNAMIC.test(part) ? null : part));
+    const names = kept.map((part) => (CATCH_ALL.test(part) || DYNAMIC.test(part) ? part.replace(/^\[(\.\.\.)?|\]$/g, '') : undefined));
+    screens.push({ file, segments, names, rank: segments.filter((s) => s !== null && s !== '*').length });
   }
   return screens.sort((a, b) => b.rank - a.rank || b.segments.length - a.segments.length);
 }
@@ -56,19 +58,47 @@ function withLayouts(manifest: RouteChunkManifest, file: string): string[] {
   return chunks;
 }
 
+/** The path's segments, decoded; `null` when one cannot be decoded. */
+function decodePath(urlPath: string): string[] | null {
+  try {
+    return urlPath.split('/').filter(Boolean).map(decodeURIComponent);
+  } catch {
+    return null;
+  }
+}
+
+export interface RouteMatch {
+  /** The route file, as the manifest names it. */
+  file: string;
+  /** Its dynamic segments' values by name (a catch-all's joined with '/'). */
+  params: Record<string, string>;
+}
+
+/** A function from a request path to the route file Expo Router would show for it, if any. */
+export function routeMatcher(manifest: RouteChunkManifest): (urlPath: string) => RouteMatch | null {
+  const screens = screensOf(manifest);
+  return (urlPath) => {
+    const path = decodePath(urlPath);
+    if (!path) return null;
+    const screen = screens.find((s) => matches(s, path));
+    if (!screen) return null;
+    const params: Record<string, string> = {};
+    screen.segments.forEach((segment, i) => {
+      const name = screen.names[i];
+      if (name) params[name] = segment === '*' ? path.slice(i).join('/') : path[i];
+    });
+    return { file: screen.file, params };
+  };
+}
+
 /** A function from a request path to the chunk URLs its page loads before it can draw. */
 export function routeChunks(manifest: RouteChunkManifest): (urlPath: string) => string[] {
-  const screens = screensOf(manifest);
+  const match = routeMatcher(manifest);
   const notFound = Object.keys(manifest).find((file) => /(^|\/)\+not-found\.[jt]sx?$/.test(file));
   return (urlPath) => {
-    let path: string[];
-    try {
-      path = urlPath.split('/').filter(Boolean).map(decodeURIComponent);
-    } catch {
-      return [];
-    }
-    const screen = screens.find((s) => matches(s, path));
-    if (screen) return withLayouts(manifest, screen.file);
+    if (!decodePath(urlPath)) return [];
+    const found = match(urlPath);
+    if (found) return withLayouts(manifest, found.file);
     return notFound ? withLayouts(manifest, notFound) : [];
   };
 }

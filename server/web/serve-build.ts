@@ -4,12 +4,13 @@ import type { Express, Request, Response } from 'express';
 import expressStaticGzip from 'express-static-gzip';
 import type { Logger } from 'pino';
 import type { Me } from '@/shared/schemas/auth';
-import { BOOT_ELEMENT_ID } from '@/shared/boot';
+import { BOOT_ELEMENT_ID, CURRENT_COLLECTION_COOKIE } from '@/shared/boot';
 import type { AppContext } from '../context';
 import { HttpError } from '../errors';
 import { setSessionCookie } from '../middleware/session';
 import { describeMe } from '../services/me';
-import { routeChunks, type RouteChunkManifest } from './route-chunks';
+import { firstRequests } from './data-preloads';
+import { routeChunks, routeMatcher, type RouteChunkManifest } from './route-chunks';
 
 /** A value for a double-quoted HTML attribute. */
 function attribute(value: string): string {
@@ -37,7 +38,9 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
   const indexFile = path.join(webRoot, 'index.html');
   if (!fs.existsSync(indexFile)) throw new Error(`No web build at ${webRoot}; run npm run build:web`);
   const template = fs.readFileSync(indexFile, 'utf8');
-  const chunksFor = routeChunks(readManifest(webRoot));
+  const manifest = readManifest(webRoot);
+  const chunksFor = routeChunks(manifest);
+  const routeOf = routeMatcher(manifest);
 
   app.use(
     expressStaticGzip(webRoot, {
@@ -74,15 +77,26 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
     }
   }
 
+  /** The collection the page's screens will open: the browser's remembered one, else the first (as the app chooses). */
+  function currentCollection(req: Request, me: Me): string | undefined {
+    const remembered = new RegExp(`(?:^|;\\s*)${CURRENT_COLLECTION_COOKIE}=([^;]*)`).exec(req.headers.cookie ?? '')?.[1];
+    return me.collections.find((c) => c.id === remembered)?.id ?? me.collections[0]?.id;
+  }
+
   app.get('/{*splat}', async (req, res, next) => {
     // A missing file (a name with an extension) is a 404, not the app's page in its place.
     if (/\.[a-z0-9]+$/i.test(req.path)) return next(new HttpError(404, 'not_found', `No file ${req.path}`));
     const me = await signedIn(req, res);
+    const collectionId = me ? currentCollection(req, me) : undefined;
     const head = [
       // Low, as the deferred bundle they follow is: the bundle runs first, so they must not take its bandwidth.
       // The href exactly as the router's loader will ask for it (brackets and all), or the browser
       // would not match the two and would fetch the chunk twice.
       ...chunksFor(req.path).map((href) => `<link rel="preload" as="script" fetchpriority="low" href="${attribute(href)}">`),
+      // Same mode and credentials as the app's fetch, so the browser hands it the preloaded answer.
+      ...(collectionId ? firstRequests(routeOf(req.path), collectionId) : []).map(
+        (href) => `<link rel="preload" as="fetch" crossorigin="use-credentials" href="${attribute(href)}">`,
+      ),
       me === undefined ? '' : `<script type="application/json" id="${BOOT_ELEMENT_ID}">${jsonForScript({ me })}</script>`,
     ].join('');
     // The page now carries the person's name and collections: never shared, never stored.

@@ -6,7 +6,8 @@ import zlib from 'node:zlib';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sessionSchema } from '@/shared/schemas/auth';
-import { BOOT_ELEMENT_ID } from '@/shared/boot';
+import { BOOT_ELEMENT_ID, CURRENT_COLLECTION_COOKIE } from '@/shared/boot';
+import { memberships } from '../../db/schema';
 import { buildCollectionWithMembers, insertUser, sessionCookieFor } from '../factories/users';
 import { testDb } from './support/database';
 import { startTestServer, type TestServer } from './support/server';
@@ -111,6 +112,35 @@ describe('serving the web build', () => {
     // The same answer GET /api/session gives.
     const api = await supertest(server.url).get('/api/session').set('Cookie', people.grower.cookie);
     expect(session).toEqual(api.body);
+  });
+
+  it("starts the screen's first API requests with the page, in the browser's current collection", async () => {
+    const db = testDb();
+    const { collectionId, otherCollectionId, people } = await buildCollectionWithMembers(db, 'Preload bench');
+    const fetches = (html: string) => [...html.matchAll(/<link rel="preload" as="fetch" crossorigin="use-credentials" href="([^"]+)">/g)].map((m) => m[1]);
+
+    const today = await supertest(server.url).get('/').set('Cookie', people.grower.cookie);
+    expect(fetches(today.text)).toEqual([`/api/collections/${collectionId}/attention`, `/api/collections/${collectionId}/cold-nights`]);
+
+    // A second collection of theirs, remembered by the browser, is the one preloaded.
+    await db.insert(memberships).values({ collectionId: otherCollectionId, userId: people.grower.id, role: 'viewer' });
+    const chosen = await supertest(server.url).get('/').set('Cookie', `${people.grower.cookie}; ${CURRENT_COLLECTION_COOKIE}=${otherCollectionId}`);
+    expect(fetches(chosen.text)[0]).toBe(`/api/collections/${otherCollectionId}/attention`);
+
+    // Someone else's collection in the cookie is ignored: the first of theirs, as the app picks.
+    const foreign = await supertest(server.url).get('/').set('Cookie', `${people.viewer.cookie}; ${CURRENT_COLLECTION_COOKIE}=${otherCollectionId}`);
+    expect(fetches(foreign.text)[0]).toBe(`/api/collections/${collectionId}/attention`);
+
+    const leadId = '6f1c7a52-3d2e-4a8b-9f10-2b7c4d5e6a70';
+    const lead = await supertest(server.url).get(`/plants/0b5e2c1a-8d4f-4e6a-9b3c-1a2b3c4d5e6f/leads/${leadId}`).set('Cookie', people.viewer.cookie);
+    expect(fetches(lead.text)).toEqual([
+      `/api/collections/${collectionId}`,
+      `/api/collections/${collectionId}/leads/${leadId}`,
+      `/api/collections/${collectionId}/leads/${leadId}/forecast`,
+    ]);
+    // Malformed ids and signed-out pages start nothing.
+    expect(fetches((await supertest(server.url).get('/plants/x/leads/y').set('Cookie', people.viewer.cookie)).text)).toEqual([]);
+    expect(fetches((await supertest(server.url).get('/')).text)).toEqual([]);
   });
 
   it('writes a name that looks like markup so it cannot end the script element', async () => {

@@ -1,8 +1,17 @@
-import { createContext, useCallback, useContext, useMemo, useState, type ReactNode } from 'react';
+import { createContext, useCallback, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
+import { CURRENT_COLLECTION_COOKIE } from '@/shared/boot';
 import type { CollectionSummary } from '@/shared/schemas/auth';
 import { storage } from '@/lib/storage';
 
 const STORAGE_KEY = 'sympodia.currentCollection';
+const A_YEAR_S = 365 * 24 * 3600;
+
+/** The same choice in a cookie, so the server can start the chosen collection's first requests with the page. */
+function rememberInCookie(id: string): void {
+  if (typeof document === 'undefined') return;
+  const secure = globalThis.location?.protocol === 'https:' ? '; secure' : '';
+  document.cookie = `${CURRENT_COLLECTION_COOKIE}=${encodeURIComponent(id)}; path=/; max-age=${A_YEAR_S}; samesite=lax${secure}`;
+}
 
 interface CurrentCollection {
   collection: CollectionSummary | undefined;
@@ -13,6 +22,7 @@ interface CurrentCollection {
 /** Makes `id` the collection this browser opens next (after accepting an invitation, say). */
 export function rememberCollection(id: string): void {
   storage.set(STORAGE_KEY, id);
+  rememberInCookie(id);
 }
 
 const Context = createContext<CurrentCollection | null>(null);
@@ -21,13 +31,18 @@ const Context = createContext<CurrentCollection | null>(null);
 export function CurrentCollectionProvider({ collections, children }: { collections: CollectionSummary[]; children: ReactNode }) {
   const [chosen, setChosen] = useState<string | null>(() => storage.get(STORAGE_KEY));
   const select = useCallback((id: string) => {
-    storage.set(STORAGE_KEY, id);
+    rememberCollection(id);
     setChosen(id);
   }, []);
   const value = useMemo(
     () => ({ collection: collections.find((c) => c.id === chosen) ?? collections[0], collections, select }),
     [collections, chosen, select],
   );
+  // A choice made before the cookie existed reaches the server from the next page on.
+  const openedId = value.collection?.id;
+  useEffect(() => {
+    if (openedId) rememberInCookie(openedId);
+  }, [openedId]);
   return <Context.Provider value={value}>{children}</Context.Provider>;
 }
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { routeChunks } from '../../../server/web/route-chunks';
+import { routeChunks, routeMatcher } from '../../../server/web/route-chunks';
 
 // The app/ folder's route files as scripts/web/postbuild.mjs writes them (chunk names shortened).
 const manifest = {
@@ -57,5 +57,21 @@ describe('routeChunks', () => {
     expect(chunksFor('/plants/p-1/extra/deep')).toEqual(['/c/root-layout.js', '/c/not-found.js']);
     expect(chunksFor('/plants/%E0%A4%A')).toEqual([]);
     expect(routeChunks({})('/')).toEqual([]);
+  });
+});
+
+describe('routeMatcher', () => {
+  const match = routeMatcher(manifest);
+
+  it("names the route file and its dynamic segments' values", () => {
+    expect(match('/plants/p-1/leads/l-9')).toEqual({ file: '(app)/(tabs)/plants/[plantId]/leads/[leadId].tsx', params: { plantId: 'p-1', leadId: 'l-9' } });
+    expect(match('/')).toEqual({ file: '(app)/(tabs)/index.tsx', params: {} });
+    expect(match('/docs/a/b')).toEqual({ file: 'docs/[...rest].tsx', params: { rest: 'a/b' } });
+    expect(match('/plants/a%20b')?.params).toEqual({ plantId: 'a b' });
+  });
+
+  it('matches nothing for an unknown or undecodable path', () => {
+    expect(match('/nowhere/at/all')).toBeNull();
+    expect(match('/plants/%E0%A4%A')).toBeNull();
   });
 });
