@@ -4,6 +4,7 @@
  */
 import type { BloomHistory } from './bloom-window';
 import { addDays, daysBetween, isIsoDate } from './dates';
+import { countOnOrBefore, datedMeasurements } from './dated-measurements';
 import type { LeadFlag } from './flags';
 import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
 import type { LeadShape } from './growth-curve';
@@ -48,13 +49,14 @@ export interface AttentionOptions {
 
 const ORDER: Record<AttentionKind, number> = { aborted: 0, stalled: 1, sheath: 2, bloom: 3, measure: 4 };
 
+/** The lead's latest look on or before today (the first in the list of several on that day). */
 function latestMeasurement(h: BloomHistory, today: IsoDate): Measurement | null {
-  let best: Measurement | null = null;
-  for (const m of h.measurements) {
-    if (m.leadId !== h.lead.id || !isIsoDate(m.date) || m.date > today) continue;
-    if (!best || m.date > best.date) best = m;
-  }
-  return best;
+  const dated = datedMeasurements(h.measurements, h.lead.id);
+  const ms = dated.ms;
+  let i = countOnOrBefore(dated, today) - 1;
+  if (i < 0) return null;
+  while (i > 0 && ms[i - 1].date === ms[i].date) i--;
+  return ms[i];
 }
 
 /**

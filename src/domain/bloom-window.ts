@@ -11,6 +11,7 @@
  */
 import { mean, median, sampleVariance } from 'simple-statistics';
 import { addDays, daysBetween, isIsoDate, shiftedDayNumber, toDayNumber } from './dates';
+import { countOnOrBefore, datedMeasurements } from './dated-measurements';
 import {
   dailyDegreeDays,
   dateReachingDegreeDays,
@@ -88,10 +89,11 @@ export interface BloomForecast {
   notes: string[];
 }
 
-function sortedMeasurements(h: LeadHistory, today?: IsoDate): Measurement[] {
-  return h.measurements
-    .filter((m) => m.leadId === h.lead.id && isIsoDate(m.date) && (today === undefined || m.date <= today))
-    .sort((a, b) => (a.date < b.date ? -1 : a.date > b.date ? 1 : 0));
+/** The lead's validly dated measurements on or before `today` (all without), by date. */
+function sortedMeasurements(h: LeadHistory, today?: IsoDate): readonly Measurement[] {
+  const dated = datedMeasurements(h.measurements, h.lead.id);
+  const end = countOnOrBefore(dated, today);
+  return end === dated.ms.length ? dated.ms : dated.ms.slice(0, end);
 }
 
 function tallestOf(ms: readonly Measurement[]): number | null {
@@ -133,24 +135,24 @@ function maturedOnSorted(ms: readonly Measurement[], lead: LeadHistory['lead'], 
  * the same history is read by every forecast of the plant. Keyed on the list's identity, so a
  * caller that builds new lists gets fresh answers; the value is a pure function of the key.
  */
-const maturityMemo = new WeakMap<GenusDefaults, WeakMap<readonly Measurement[], Map<string, IsoDate | null>>>();
+const maturityMemo = new WeakMap<
+  readonly Measurement[],
+  Array<{ genus: GenusDefaults; leadId: string; firstSeen: IsoDate; status: LeadHistory['lead']['status']; length: number; value: IsoDate | null }>
+>();
 
 function maturedOnCached(h: LeadHistory, ms: readonly Measurement[], genus: GenusDefaults): IsoDate | null {
-  let byList = maturityMemo.get(genus);
-  if (!byList) {
-    byList = new WeakMap();
-    maturityMemo.set(genus, byList);
+  let entries = maturityMemo.get(h.measurements);
+  if (!entries) {
+    entries = [];
+    maturityMemo.set(h.measurements, entries);
   }
-  let byKey = byList.get(h.measurements);
-  if (!byKey) {
-    byKey = new Map();
-    byList.set(h.measurements, byKey);
-  }
-  const key = `${h.lead.id}|${h.lead.firstSeen}|${h.lead.status}|${h.measurements.length}`;
-  if (byKey.has(key)) return byKey.get(key)!;
-  const v = maturedOnSorted(ms, h.lead, genus, h.measurements);
-  byKey.set(key, v);
-  return v;
+  const { id, firstSeen, status } = h.lead;
+  const length = h.measurements.length;
+  const hit = entries.find((e) => e.genus === genus && e.leadId === id && e.firstSeen === firstSeen && e.status === status && e.length === length);
+  if (hit) return hit.value;
+  const value = maturedOnSorted(ms, h.lead, genus, h.measurements);
+  entries.push({ genus, leadId: id, firstSeen, status, length, value });
+  return value;
 }
 
 /**

@@ -47,26 +47,11 @@ function civilFromDays(z0: number): [number, number, number] {
 }
 
 /*
- * The engine turns the same few thousand date strings into day numbers many times over (every
- * fit, comparison and interval reads them), so parsed values are remembered. Bounded: the map
- * starts afresh when full, which only costs re-parsing.
+ * Parsed straight from the characters every time: cheaper than looking the string up in a memo
+ * (which has to hash it), most of all on the first read of freshly loaded records.
  */
-const PARSE_MEMO_LIMIT = 100_000;
-const parseMemo = new Map<string, number | null>();
-
 function parse(date: string): number | null {
-  const known = parseMemo.get(date);
-  if (known !== undefined) return known;
-  const n = parseUncached(date);
-  if (typeof date === 'string') {
-    if (parseMemo.size >= PARSE_MEMO_LIMIT) parseMemo.clear();
-    parseMemo.set(date, n);
-  }
-  return n;
-}
-
-function parseUncached(date: string): number | null {
-  if (typeof date !== 'string' || date.length !== 10 || date[4] !== '-' || date[7] !== '-') return null;
+  if (typeof date !== 'string' || date.length !== 10 || date.charCodeAt(4) !== 45 || date.charCodeAt(7) !== 45) return null; // 45: '-'
   const y = digits(date, 0, 4);
   const m = digits(date, 5, 7);
   const d = digits(date, 8, 10);
@@ -90,6 +75,11 @@ export function toDayNumber(date: IsoDate): number {
 export function fromDayNumber(day: number): IsoDate {
   const [y, m, d] = civilFromDays(Math.round(day));
   return `${String(y).padStart(4, '0')}-${m < 10 ? '0' : ''}${m}-${d < 10 ? '0' : ''}${d}`;
+}
+
+/** Day number of a valid 'YYYY-MM-DD' calendar date, null for anything else (never throws). */
+export function dayNumberOrNull(date: string): number | null {
+  return parse(date);
 }
 
 /** True when the string is a valid 'YYYY-MM-DD' calendar date. */

@@ -93,17 +93,26 @@ function studentTPdf(t: number, df: number): number {
  * about 1e-12. p = 0 or 1 give ∓Infinity; other p outside (0, 1) give NaN.
  */
 export function studentTQuantile(p: number, df: number): number {
-  const key = `${p}|${df}`;
-  const cached = quantileCache.get(key);
+  let byDf = quantileCache.get(p);
+  if (!byDf) {
+    if (quantileCacheSize >= QUANTILE_CACHE_MAX) return computeStudentTQuantile(p, df);
+    byDf = new Map();
+    quantileCache.set(p, byDf);
+  }
+  const cached = byDf.get(df);
   if (cached !== undefined) return cached;
   const q = computeStudentTQuantile(p, df);
-  if (quantileCache.size < QUANTILE_CACHE_MAX) quantileCache.set(key, q);
+  if (quantileCacheSize < QUANTILE_CACHE_MAX) {
+    byDf.set(df, q);
+    quantileCacheSize++;
+  }
   return q;
 }
 
-// Memo of quantiles: the engine asks for the same few (p, df) pairs over and over.
+// Memo of quantiles by p, then df: the engine asks for the same few (p, df) pairs over and over.
 const QUANTILE_CACHE_MAX = 4096;
-const quantileCache = new Map<string, number>();
+const quantileCache = new Map<number, Map<number, number>>();
+let quantileCacheSize = 0;
 
 function computeStudentTQuantile(p: number, df: number): number {
   if (!(df > 0) || Number.isNaN(p) || p < 0 || p > 1) return Number.NaN;

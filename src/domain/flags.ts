@@ -12,6 +12,7 @@
  */
 import { median } from 'simple-statistics';
 import { daysBetween, isIsoDate } from './dates';
+import { countOnOrBefore, datedMeasurements, usableHeight } from './dated-measurements';
 import type { GenusDefaults } from './genus-defaults';
 import { dayAtHeight, logisticHeight, type LeadShape } from './growth-curve';
 import { expectedSmaller, tallestHeight, type LeadHistory } from './prior-years';
@@ -81,10 +82,8 @@ function pct(x: number): string {
 export function leadFlags(input: FlagInput): LeadFlag[] {
   const { current, plant, genusDefaults: genus, today } = input;
   const lead = current.lead;
-  const pts = current.measurements
-    .filter((m) => m.leadId === lead.id && isIsoDate(m.date) && m.date <= today && Number.isFinite(m.heightMm) && m.heightMm >= 0)
-    .slice()
-    .sort((a, b) => (a.date < b.date ? -1 : a.date > b.date ? 1 : 0));
+  const dated = datedMeasurements(current.measurements, lead.id);
+  const pts = dated.ms.slice(0, countOnOrBefore(dated, today)).filter(usableHeight);
 
   const earlier = input.plantLeads.filter((h) => h.lead.season < lead.season && h.lead.id !== lead.id);
   const lastSeasonNo = earlier.length ? Math.max(...earlier.map((h) => h.lead.season)) : null;

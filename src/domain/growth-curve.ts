@@ -8,7 +8,8 @@
  * Same curve as R's SSlogis (Asym, xmid, scal).
  */
 import { median, sampleStandardDeviation } from 'simple-statistics';
-import { addDays, daysBetween, isIsoDate } from './dates';
+import { addDays, daysBetween, toDayNumber } from './dates';
+import { countOnOrBefore, datedMeasurements, usableHeight } from './dated-measurements';
 import { studentTQuantile } from './distributions';
 import type { GenusDefaults } from './genus-defaults';
 import { levenbergMarquardt, type LeastSquaresModel } from './least-squares';
@@ -139,7 +140,22 @@ interface BorrowedShape {
   priorHeightRelSd: number;
 }
 
+/** The borrowed shape with no earlier leads to borrow from: the genus's, made once per genus. */
+const genusShapes = new WeakMap<GenusDefaults, BorrowedShape>();
+
 function borrowedShape(priorShapes: readonly LeadShape[] | undefined, genus: GenusDefaults): BorrowedShape {
+  if (!priorShapes || priorShapes.length === 0) {
+    let shape = genusShapes.get(genus);
+    if (!shape) {
+      shape = computeBorrowedShape(undefined, genus);
+      genusShapes.set(genus, shape);
+    }
+    return shape;
+  }
+  return computeBorrowedShape(priorShapes, genus);
+}
+
+function computeBorrowedShape(priorShapes: readonly LeadShape[] | undefined, genus: GenusDefaults): BorrowedShape {
   const usable = (priorShapes ?? []).filter(
     (p) => Number.isFinite(p.midpointDays) && positiveFinite(p.scaleDays),
   );
@@ -218,10 +234,11 @@ function clampedWidth(c: Candidate): number {
 }
 
 function scaleOnly(t: number[], h: number[], shape: BorrowedShape): Candidate | null {
-  const g = t.map((ti) => logisticFraction(ti, shape.m, shape.s));
+  const g: number[] = [];
   let sgg = 0;
   let sgy = 0;
   for (let i = 0; i < t.length; i++) {
+    g.push(logisticFraction(t[i], shape.m, shape.s));
     sgg += g[i] * g[i];
     sgy += g[i] * h[i];
   }
@@ -233,13 +250,12 @@ function scaleOnly(t: number[], h: number[], shape: BorrowedShape): Candidate | 
   const s2 = (MEASUREMENT_SD_PRIOR_DF * MEASUREMENT_SD_PRIOR_MM ** 2 + sse) / df;
   const se = Math.sqrt(s2 / sgg);
   const q = studentTQuantile(0.5 + INTERVAL_COVERAGE / 2, df);
-  const tLast = Math.max(...t);
+  const tLast = maxOf(t);
   const gLast = logisticFraction(tLast, shape.m, shape.s);
   const u = (tLast - shape.m) / shape.s;
   const relShapeSd = Math.hypot(((1 - gLast) * shape.sdM) / shape.s, (scaleSensitivity(u) * shape.sdS) / shape.s);
   const z = studentTQuantile(0.5 + INTERVAL_COVERAGE / 2, Infinity);
   const halfWidth = Math.hypot(q * se, z * relShapeSd * a);
-  const source = shape.source === 'plant' ? "this plant's earlier leads" : 'genus defaults';
   return {
     method: shape.source === 'plant' ? 'scale-only-plant-shape' : 'scale-only-genus-shape',
     a,
@@ -250,8 +266,30 @@ function scaleOnly(t: number[], h: number[], shape: BorrowedShape): Candidate | 
     residualSd: t.length > 1 ? Math.sqrt(sse / (t.length - 1)) : null,
     df,
     sse,
-    notes: [`shape borrowed from ${source} (midpoint ${shape.m.toFixed(0)} d, scale ${shape.s.toFixed(1)} d)`],
+    // Written out only if this candidate is the one reported (see `candidateNotes`).
+    notes: [],
   };
+}
+
+/** The notes a chosen candidate reports about itself. */
+function candidateNotes(c: Candidate): string[] {
+  if (c.method !== 'scale-only-plant-shape' && c.method !== 'scale-only-genus-shape') return c.notes;
+  const source = c.method === 'scale-only-plant-shape' ? "this plant's earlier leads" : 'genus defaults';
+  return [`shape borrowed from ${source} (midpoint ${c.m.toFixed(0)} d, scale ${c.s.toFixed(1)} d)`];
+}
+
+/** Largest of a non-empty list (as Math.max of its items). */
+function maxOf(xs: readonly number[]): number {
+  let best = -Infinity;
+  for (let i = 0; i < xs.length; i++) best = Math.max(best, xs[i]);
+  return best;
+}
+
+/** Smallest of a non-empty list (as Math.min of its items). */
+function minOf(xs: readonly number[]): number {
+  let best = Infinity;
+  for (let i = 0; i < xs.length; i++) best = Math.min(best, xs[i]);
+  return best;
 }
 
 function implausibility(r: ReturnType<typeof levenbergMarquardt>, maxH: number, tMax: number): string | null {
@@ -264,9 +302,9 @@ function implausibility(r: ReturnType<typeof levenbergMarquardt>, maxH: number, 
 }
 
 function freeFit(t: number[], h: number[], shape: BorrowedShape, scaleOnlyA: number | null): Candidate | { rejected: string } {
-  const maxH = Math.max(...h);
-  const tMin = Math.min(...t);
-  const tMax = Math.max(...t);
+  const maxH = maxOf(h);
+  const tMin = minOf(t);
+  const tMax = maxOf(t);
   const starts: number[][] = [
     [Math.max(maxH * 1.05, scaleOnlyA ?? 0, 1), shape.m, shape.s],
     [Math.max(maxH * 1.2, 1), (tMin + tMax) / 2, Math.max((tMax - tMin) / 6, 1)],
@@ -364,41 +402,45 @@ export function fitLeadCurve(
   options: FitLeadCurveOptions,
 ): LeadCurveFit {
   const { today, genusDefaults } = options;
-  const usable = measurements
-    .filter(
-      (x) =>
-        x.leadId === lead.id &&
-        isIsoDate(x.date) &&
-        x.date <= today &&
-        Number.isFinite(x.heightMm) &&
-        x.heightMm >= 0,
-    )
-    .slice()
-    .sort((a, b) => (a.date < b.date ? -1 : a.date > b.date ? 1 : 0));
-  const t = usable.map((x) => daysBetween(lead.firstSeen, x.date));
-  const h = usable.map((x) => x.heightMm);
+  // The lead's own measurements on or before today with a usable height, by date: t in days
+  // since first seen, h in mm.
+  const dated = datedMeasurements(measurements, lead.id);
+  const end = countOnOrBefore(dated, today);
+  const t: number[] = [];
+  const h: number[] = [];
+  let firstSeenDay: number | null = null;
+  for (let i = 0; i < end; i++) {
+    const x = dated.ms[i];
+    if (!usableHeight(x)) continue;
+    firstSeenDay ??= toDayNumber(lead.firstSeen);
+    t.push(dated.days[i] - firstSeenDay);
+    h.push(x.heightMm);
+  }
+  const n = t.length;
   const shape = borrowedShape(options.priorShapes, genusDefaults);
   const ageDaysToday = daysBetween(lead.firstSeen, today);
   const notes: string[] = [];
 
   let chosen: Candidate | null = null;
-  const scaled = usable.length > 0 ? scaleOnly(t, h, shape) : null;
+  const scaled = n > 0 ? scaleOnly(t, h, shape) : null;
   if (scaled) chosen = scaled;
-  const distinctAges = new Set(t).size;
-  if (usable.length >= MIN_POINTS_FREE_FIT && distinctAges >= MIN_POINTS_FREE_FIT) {
+  // Ages come in date order, so equal ones are adjacent.
+  let distinctAges = 0;
+  for (let i = 0; i < n; i++) if (i === 0 || t[i] !== t[i - 1]) distinctAges++;
+  if (n >= MIN_POINTS_FREE_FIT && distinctAges >= MIN_POINTS_FREE_FIT) {
     const free = freeFit(t, h, shape, scaled ? scaled.a : null);
     if ('rejected' in free) notes.push(free.rejected);
     else if (!chosen || clampedWidth(free) <= clampedWidth(chosen)) chosen = free;
     else notes.push('free fit less certain than the borrowed shape');
-  } else if (usable.length > 0) {
-    notes.push(`only ${usable.length} measurement${usable.length === 1 ? '' : 's'} at ${distinctAges} age${distinctAges === 1 ? '' : 's'}: shape not fitted`);
+  } else if (n > 0) {
+    notes.push(`only ${n} measurement${n === 1 ? '' : 's'} at ${distinctAges} age${distinctAges === 1 ? '' : 's'}: shape not fitted`);
   }
 
   // The prior alone (typical mature size of earlier leads or the genus) competes too: early in
   // the season one measurement says less about the mature size than the plant's record does.
   // It is admissible only while its interval still reaches the tallest measurement.
-  const prior = priorOnly(shape, usable.length === 0);
-  const maxH = h.length > 0 ? Math.max(...h) : 0;
+  const prior = priorOnly(shape, n === 0);
+  const maxH = h.length > 0 ? maxOf(h) : 0;
   if (!chosen || (prior.a + prior.halfWidth >= maxH && clampedWidth(prior) < clampedWidth(chosen))) {
     if (chosen) notes.push('measurements still too early to scale the curve: typical mature size shown');
     chosen = prior;
@@ -423,13 +465,13 @@ export function fitLeadCurve(
     maturityDays,
     maturityDate: addDays(lead.firstSeen, Math.round(maturityDays)),
     residualSdMm: chosen.residualSd !== null && Number.isFinite(chosen.residualSd) ? chosen.residualSd : null,
-    n: usable.length,
+    n,
     degreesOfFreedom: chosen.df,
     rSquared,
     quality: qualityOf(chosen.method, a, halfWidth),
     ageDaysToday,
     expectedHeightTodayMm: logisticHeight(ageDaysToday, a, chosen.m, chosen.s),
-    notes: [...chosen.notes, ...notes],
+    notes: [...candidateNotes(chosen), ...notes],
   };
 }
 
@@ -439,7 +481,10 @@ export function fitLeadCurve(
  * Keyed on the list's identity and everything else the fit reads, so the value is a pure
  * function of the key.
  */
-const asOfLastMemo = new WeakMap<GenusDefaults, WeakMap<readonly Measurement[], Map<string, LeadCurveFit>>>();
+const asOfLastMemo = new WeakMap<
+  readonly Measurement[],
+  Array<{ genusDefaults: GenusDefaults; leadId: string; firstSeen: IsoDate; length: number; byLast: Array<LeadCurveFit | undefined> }>
+>();
 
 /**
  * `fitLeadCurve` of a lead with no borrowed shapes, on the date of its last valid measurement on
@@ -453,28 +498,32 @@ export function fitAsOfLastMeasurement(
   genusDefaults: GenusDefaults,
   today?: IsoDate,
 ): LeadCurveFit | null {
-  let last: IsoDate | null = null;
-  for (const m of measurements) {
-    if (m.leadId !== lead.id || !isIsoDate(m.date) || (today !== undefined && m.date > today)) continue;
-    if (!Number.isFinite(m.heightMm) || m.heightMm < 0) continue;
-    if (last === null || m.date > last) last = m.date;
+  // The latest usable look on or before today (the sorted list's last one).
+  const dated = datedMeasurements(measurements, lead.id);
+  let lastIndex = countOnOrBefore(dated, today) - 1;
+  while (lastIndex >= 0 && !usableHeight(dated.ms[lastIndex])) lastIndex--;
+  if (lastIndex < 0) return null;
+  let entries = asOfLastMemo.get(measurements);
+  if (!entries) {
+    entries = [];
+    asOfLastMemo.set(measurements, entries);
   }
-  if (last === null) return null;
-  let byList = asOfLastMemo.get(genusDefaults);
-  if (!byList) {
-    byList = new WeakMap();
-    asOfLastMemo.set(genusDefaults, byList);
+  let entry = null;
+  for (const e of entries) {
+    if (e.genusDefaults === genusDefaults && e.leadId === lead.id && e.firstSeen === lead.firstSeen && e.length === measurements.length) {
+      entry = e;
+      break;
+    }
   }
-  let byKey = byList.get(measurements);
-  if (!byKey) {
-    byKey = new Map();
-    byList.set(measurements, byKey);
+  if (!entry) {
+    entry = { genusDefaults, leadId: lead.id, firstSeen: lead.firstSeen, length: measurements.length, byLast: [] };
+    entries.push(entry);
   }
-  const key = `${lead.id}|${lead.firstSeen}|${last}|${measurements.length}`;
-  let fit = byKey.get(key);
+  // Keyed by the position of that look: the fit reads the looks up to its date.
+  let fit = entry.byLast[lastIndex];
   if (!fit) {
-    fit = fitLeadCurve(measurements, lead, { genusDefaults, today: last });
-    byKey.set(key, fit);
+    fit = fitLeadCurve(measurements, lead, { genusDefaults, today: dated.ms[lastIndex].date });
+    entry.byLast[lastIndex] = fit;
   }
   return fit;
 }

@@ -124,9 +124,109 @@ function choleskySolveFlat(m: Float64Array, v: Float64Array, k: number, l: Float
   return true;
 }
 
-function toRows(flat: Float64Array, k: number): number[][] {
-  return Array.from({ length: k }, (_, i) => Array.from(flat.subarray(i * k, i * k + k)));
+/**
+ * Inverse of the k×k row-major SPD matrix m into inv, factored once (Cholesky, into l) and solved
+ * for each unit vector with the same operations as `invertSpd`; false if not SPD.
+ */
+function invertSpdFlat(m: Float64Array, k: number, l: Float64Array, inv: Float64Array, col: Float64Array): boolean {
+  for (let i = 0; i < k; i++) {
+    for (let j = 0; j <= i; j++) {
+      let s = m[i * k + j];
+      for (let q = 0; q < j; q++) s -= l[i * k + q] * l[j * k + q];
+      if (i === j) {
+        if (!(s > 0) || !Number.isFinite(s)) return false;
+        l[i * k + i] = Math.sqrt(s);
+      } else {
+        l[i * k + j] = s / l[j * k + j];
+      }
+    }
+  }
+  for (let c = 0; c < k; c++) {
+    for (let i = 0; i < k; i++) {
+      let s = i === c ? 1 : 0;
+      for (let q = 0; q < i; q++) s -= l[i * k + q] * col[q];
+      col[i] = s / l[i * k + i];
+    }
+    for (let i = k - 1; i >= 0; i--) {
+      let s = col[i];
+      for (let q = i + 1; q < k; q++) s -= l[q * k + i] * col[q];
+      col[i] = s / l[i * k + i];
+    }
+    for (let r = 0; r < k; r++) inv[r * k + c] = col[r];
+  }
+  return true;
 }
+
+function oneNormFlat(m: Float64Array, k: number): number {
+  let best = 0;
+  for (let c = 0; c < k; c++) {
+    let s = 0;
+    for (let r = 0; r < k; r++) s += Math.abs(m[r * k + c]);
+    best = Math.max(best, s);
+  }
+  return best;
+}
+
+/**
+ * 1-norm condition number of the k×k row-major JᵀJ after scaling it to unit diagonal (so units
+ * do not matter); `scaled`, `l`, `inv` (k×k) and `col` (k) are scratch.
+ */
+function scaledConditionNumberFlat(jtj: Float64Array, k: number, scaled: Float64Array, l: Float64Array, inv: Float64Array, col: Float64Array): number {
+  for (let i = 0; i < k; i++) {
+    const di = Math.sqrt(jtj[i * k + i]);
+    if (!(di > 0) || !Number.isFinite(di)) return Infinity;
+    col[i] = di;
+  }
+  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) scaled[i * k + j] = jtj[i * k + j] / (col[i] * col[j]);
+  if (!invertSpdFlat(scaled, k, l, inv, col)) return Infinity;
+  const c = oneNormFlat(scaled, k) * oneNormFlat(inv, k);
+  return k === 0 ? 1 : Number.isFinite(c) ? c : Infinity;
+}
+
+/** The k×k row-major matrix times `factor`, as rows. */
+function scaledRows(flat: Float64Array, k: number, factor: number): number[][] {
+  const rows: number[][] = [];
+  for (let i = 0; i < k; i++) {
+    const r: number[] = [];
+    for (let j = 0; j < k; j++) r.push(flat[i * k + j] * factor);
+    rows.push(r);
+  }
+  return rows;
+}
+
+/**
+ * Scratch matrices and vectors of one solve. Fits run by the thousand (every lead of a
+ * collection), so the last size's set is kept and reused rather than allocated per call; a
+ * solve started from inside a model callback (re-entrant) gets its own.
+ */
+interface Workspace {
+  k: number;
+  jtj: Float64Array;
+  jtr: Float64Array;
+  trialJtj: Float64Array;
+  trialJtr: Float64Array;
+  damped: Float64Array;
+  scratch: Float64Array;
+  delta: Float64Array;
+  row: number[];
+}
+
+function newWorkspace(k: number): Workspace {
+  return {
+    k,
+    jtj: new Float64Array(k * k),
+    jtr: new Float64Array(k),
+    trialJtj: new Float64Array(k * k),
+    trialJtr: new Float64Array(k),
+    damped: new Float64Array(k * k),
+    scratch: new Float64Array(k * k),
+    delta: new Float64Array(k),
+    row: new Array<number>(k).fill(0),
+  };
+}
+
+let sharedWorkspace: Workspace | null = null;
+let sharedWorkspaceBusy = false;
 
 /**
  * Solves the symmetric positive-definite system M·z = v by Cholesky factorization.
@@ -175,28 +275,6 @@ export function invertSpd(m: readonly (readonly number[])[]): number[][] | null 
   return inv;
 }
 
-function oneNorm(m: readonly (readonly number[])[]): number {
-  let best = 0;
-  for (let c = 0; c < m.length; c++) {
-    let s = 0;
-    for (let r = 0; r < m.length; r++) s += Math.abs(m[r][c]);
-    best = Math.max(best, s);
-  }
-  return best;
-}
-
-/** 1-norm condition number of JᵀJ after scaling it to unit diagonal (so units do not matter). */
-function scaledConditionNumber(jtj: readonly (readonly number[])[]): number {
-  const k = jtj.length;
-  const d = jtj.map((row, i) => Math.sqrt(row[i]));
-  if (d.some((v) => !(v > 0) || !Number.isFinite(v))) return Infinity;
-  const scaled = jtj.map((row, i) => row.map((v, j) => v / (d[i] * d[j])));
-  const inv = invertSpd(scaled);
-  if (!inv) return Infinity;
-  const c = oneNorm(scaled) * oneNorm(inv);
-  return k === 0 ? 1 : Number.isFinite(c) ? c : Infinity;
-}
-
 /**
  * Minimizes Σ (y_i − f(x_i; p))² from the start `p0`.
  *
@@ -215,25 +293,49 @@ export function levenbergMarquardt(
   p0: readonly number[],
   options: LevenbergMarquardtOptions = {},
 ): LevenbergMarquardtResult {
+  const k = p0.length;
+  const shared = !sharedWorkspaceBusy;
+  let ws: Workspace;
+  if (shared) {
+    if (!sharedWorkspace || sharedWorkspace.k !== k) sharedWorkspace = newWorkspace(k);
+    ws = sharedWorkspace;
+    sharedWorkspaceBusy = true;
+  } else ws = newWorkspace(k);
+  try {
+    return solve(model, x, y, p0, options, ws);
+  } finally {
+    if (shared) sharedWorkspaceBusy = false;
+  }
+}
+
+function solve(
+  model: LeastSquaresModel,
+  x: readonly number[],
+  y: readonly number[],
+  p0: readonly number[],
+  options: LevenbergMarquardtOptions,
+  ws: Workspace,
+): LevenbergMarquardtResult {
   const maxIterations = options.maxIterations ?? 500;
   const stepTol = options.stepTolerance ?? 1e-12;
   const sseTol = options.sseTolerance ?? 1e-15;
   const k = p0.length;
   const n = x.length;
-  const jtj = new Float64Array(k * k);
-  const jtr = new Float64Array(k);
-  const damped = new Float64Array(k * k);
-  const scratch = new Float64Array(k * k);
-  const delta = new Float64Array(k);
-  const row = new Array<number>(k).fill(0);
+  const { damped, scratch, delta, row } = ws;
+  let { jtj, jtr } = ws;
+  // JᵀJ and Jᵀr at the trial point, made with its sum of squares (one model evaluation per
+  // point serves both) and swapped in when the step is taken.
+  let { trialJtj, trialJtr } = ws;
   let p = p0.slice();
   let trial = p0.slice();
   let sse = sumOfSquares(model, x, y, p);
   let lambda = options.initialDamping ?? 1e-3;
   let converged = false;
   let iterations = 0;
+  // JᵀJ is kept at the current point p from here on.
+  const haveJ = n > 0 && Number.isFinite(sse);
 
-  if (Number.isFinite(sse) && n > 0) {
+  if (haveJ) {
     normalEquations(model, x, y, p, jtj, jtr, row);
     while (iterations < maxIterations) {
       iterations++;
@@ -251,7 +353,7 @@ export function levenbergMarquardt(
         continue;
       }
       for (let j = 0; j < k; j++) trial[j] = p[j] + delta[j];
-      const trialSse = sumOfSquares(model, x, y, trial);
+      const trialSse = normalEquations(model, x, y, trial, trialJtj, trialJtr, row);
       if (trialSse <= sse) {
         const fall = sse - trialSse;
         let smallStep = true;
@@ -259,9 +361,14 @@ export function levenbergMarquardt(
         const swap = p;
         p = trial;
         trial = swap;
+        const swapJtj = jtj;
+        jtj = trialJtj;
+        trialJtj = swapJtj;
+        const swapJtr = jtr;
+        jtr = trialJtr;
+        trialJtr = swapJtr;
         sse = trialSse;
         lambda = Math.max(lambda / DAMPING_DOWN, DAMPING_MIN);
-        normalEquations(model, x, y, p, jtj, jtr, row);
         if (smallStep || fall <= sseTol * sse) {
           converged = true;
           break;
@@ -278,22 +385,16 @@ export function levenbergMarquardt(
   }
 
   const dof = n - k;
-  const haveJ = n > 0 && Number.isFinite(sse);
-  if (haveJ) normalEquations(model, x, y, p, jtj, jtr, row);
-  const jtjRows = haveJ ? toRows(jtj, k) : [];
-  const conditionNumber = jtjRows.length === k && k > 0 ? scaledConditionNumber(jtjRows) : Infinity;
+  const conditionNumber = haveJ && k > 0 ? scaledConditionNumberFlat(jtj, k, damped, scratch, trialJtj, delta) : Infinity;
   let covariance: number[][] | null = null;
   let standardErrors: number[] | null = null;
-  if (dof > 0 && jtjRows.length === k && Number.isFinite(sse)) {
-    const inv = invertSpd(jtjRows);
-    if (inv) {
-      const s2 = sse / dof;
-      covariance = inv.map((r) => r.map((v) => v * s2));
-      standardErrors = covariance.map((r, i) => Math.sqrt(Math.max(r[i], 0)));
-      if (standardErrors.some((v) => !Number.isFinite(v))) {
-        covariance = null;
-        standardErrors = null;
-      }
+  if (dof > 0 && haveJ && Number.isFinite(sse) && invertSpdFlat(jtj, k, scratch, trialJtj, delta)) {
+    const s2 = sse / dof;
+    covariance = scaledRows(trialJtj, k, s2);
+    standardErrors = covariance.map((r, i) => Math.sqrt(Math.max(r[i], 0)));
+    if (standardErrors.some((v) => !Number.isFinite(v))) {
+      covariance = null;
+      standardErrors = null;
     }
   }
   return {

@@ -3,7 +3,8 @@
  * lead size across seasons.
  */
 import { linearRegression, linearRegressionLine, rSquared } from 'simple-statistics';
-import { daysBetween, isIsoDate } from './dates';
+import { isIsoDate, toDayNumber } from './dates';
+import { countOnOrBefore, datedMeasurements, usableHeight, type DatedMeasurements } from './dated-measurements';
 import type { IsoDate, Lead, Measurement, Plant } from './types';
 
 /** Within ±10% of last season's size counts as level — common practice (a grower's eye). */
@@ -60,38 +61,47 @@ interface AgedHeight {
 
 /**
  * Aged heights are asked for many times per lead (every later lead of the plant compares with
- * it), so they are remembered per measurements array. Inputs are treated as immutable: an
+ * it), so they are remembered per measurements array, for the lead and first-seen date they were
+ * worked out for, by how many of the lead's sorted measurements fall on or before `today` (all
+ * of them, for an earlier season's lead, whatever the day). Inputs are treated as immutable: an
  * array that grows (a new measurement pushed) misses the memory; one edited in place would not.
  */
-const agedMemo = new WeakMap<readonly unknown[], Map<string, readonly AgedHeight[]>>();
+interface AgedEntry {
+  leadId: string;
+  firstSeen: IsoDate;
+  length: number;
+  /** byCount[n]: the aged heights among the first n sorted measurements. */
+  byCount: Array<readonly AgedHeight[] | undefined>;
+}
+const agedMemo = new WeakMap<readonly Measurement[], AgedEntry>();
 
 function agedHeights(h: LeadHistory, today?: IsoDate): readonly AgedHeight[] {
-  const key = `${h.lead.id}|${h.lead.firstSeen}|${today ?? ''}|${h.measurements.length}`;
-  let byKey = agedMemo.get(h.measurements);
-  if (!byKey) {
-    byKey = new Map();
-    agedMemo.set(h.measurements, byKey);
+  let entry = agedMemo.get(h.measurements);
+  if (!entry || entry.leadId !== h.lead.id || entry.firstSeen !== h.lead.firstSeen || entry.length !== h.measurements.length) {
+    entry = { leadId: h.lead.id, firstSeen: h.lead.firstSeen, length: h.measurements.length, byCount: [] };
+    agedMemo.set(h.measurements, entry);
   }
-  let found = byKey.get(key);
+  const dated = datedMeasurements(h.measurements, h.lead.id);
+  const end = countOnOrBefore(dated, today);
+  let found = entry.byCount[end];
   if (!found) {
-    found = computeAgedHeights(h, today);
-    byKey.set(key, found);
+    found = computeAgedHeights(h, dated, end);
+    entry.byCount[end] = found;
   }
   return found;
 }
 
-function computeAgedHeights(h: LeadHistory, today?: IsoDate): AgedHeight[] {
-  return h.measurements
-    .filter(
-      (m) =>
-        m.leadId === h.lead.id &&
-        isIsoDate(m.date) &&
-        (today === undefined || m.date <= today) &&
-        Number.isFinite(m.heightMm) &&
-        m.heightMm >= 0,
-    )
-    .map((m) => ({ age: daysBetween(h.lead.firstSeen, m.date), heightMm: m.heightMm }))
-    .sort((a, b) => a.age - b.age);
+/** The lead's usable heights among its first `end` sorted measurements, with their ages; in date order, so by age. */
+function computeAgedHeights(h: LeadHistory, dated: DatedMeasurements, end: number): AgedHeight[] {
+  const out: AgedHeight[] = [];
+  let firstSeenDay: number | null = null;
+  for (let i = 0; i < end; i++) {
+    const m = dated.ms[i];
+    if (!usableHeight(m)) continue;
+    firstSeenDay ??= toDayNumber(h.lead.firstSeen);
+    out.push({ age: dated.days[i] - firstSeenDay, heightMm: m.heightMm });
+  }
+  return out;
 }
 
 /**
@@ -143,7 +153,10 @@ export function ageAtHeight(history: LeadHistory, heightMm: number): number | nu
 /** Tallest measured height of a lead, mm; null without measurements. */
 export function tallestHeight(history: LeadHistory, today?: IsoDate): number | null {
   const pts = agedHeights(history, today);
-  return pts.length ? Math.max(...pts.map((p) => p.heightMm)) : null;
+  if (pts.length === 0) return null;
+  let best = -Infinity;
+  for (let i = 0; i < pts.length; i++) best = Math.max(best, pts[i].heightMm);
+  return best;
 }
 
 /**

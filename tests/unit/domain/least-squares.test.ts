@@ -114,6 +114,29 @@ describe('solver edge cases', () => {
     expect(singular.conditionNumber).toBeGreaterThan(1e12);
   });
 
+  it('gives the same answer when a solve runs inside another one (scratch space is not shared)', () => {
+    const t = [0, 14, 28, 42, 56, 70, 84, 98];
+    const h = t.map((ti, i) => 160 / (1 + Math.exp((70 - ti) / 16)) + (i % 2 === 0 ? 1.5 : -1.5));
+    const alone = levenbergMarquardt(LOGISTIC_MODEL, t, h, [150, 60, 20]);
+    let inner: ReturnType<typeof levenbergMarquardt> | null = null;
+    // A model that runs another solve of the same size (other data) part-way through the outer
+    // one's iterations, while the outer solve holds its normal equations.
+    const otherH = t.map((ti) => 90 / (1 + Math.exp((40 - ti) / 9)));
+    let calls = 0;
+    const nesting: LeastSquaresModel = {
+      value: (x, p) => LOGISTIC_MODEL.value(x, p),
+      gradient: (x, p, out) => {
+        if (++calls === 3 * t.length + 2) inner = levenbergMarquardt(LOGISTIC_MODEL, t, otherH, [80, 30, 10]);
+        LOGISTIC_MODEL.gradient(x, p, out);
+      },
+    };
+    const outer = levenbergMarquardt(nesting, t, h, [150, 60, 20]);
+    expect(outer.params).toEqual(alone.params);
+    expect(outer.standardErrors).toEqual(alone.standardErrors);
+    expect(outer.conditionNumber).toBe(alone.conditionNumber);
+    expect(inner!.params).toEqual(levenbergMarquardt(LOGISTIC_MODEL, t, otherH, [80, 30, 10]).params);
+  });
+
   it('agrees with the reference implementation (ml-levenberg-marquardt) on a lead-like curve', () => {
     const t = [0, 14, 28, 42, 56, 70, 84, 98, 112, 126, 140];
     const h = t.map((ti, i) => 160 / (1 + Math.exp((70 - ti) / 16)) + (i % 2 === 0 ? 1.5 : -1.5));
