@@ -11,7 +11,7 @@ import { errorHandler, HttpError } from './errors';
 import { originCheck } from './middleware/origin';
 import { createRateLimits, type RateLimits } from './middleware/rate-limit';
 import { engineFingerprint, FingerprintMemo } from './services/engine-data';
-import { sessionMiddleware } from './middleware/session';
+import { sessionMiddleware, sessionValidator } from './middleware/session';
 import { authRoutes } from './routes/auth';
 import { areaRoutes } from './routes/areas';
 import { careRoutes } from './routes/care';
@@ -72,9 +72,11 @@ const NO_MAILER: Mailer = {
 /** Builds the HTTP app without listening, so tests can drive it with supertest. */
 export function createApp(options: AppOptions): Express {
   const logger = options.logger ?? pino({ level: 'silent' });
+  const auth = createAuth(options.db);
   const ctx: AppContext = {
     db: options.db,
-    auth: createAuth(options.db),
+    auth,
+    validateSession: sessionValidator(auth, options.db),
     logger,
     rateLimits: options.rateLimits ?? createRateLimits(),
     fingerprints: new FingerprintMemo((collectionId) => engineFingerprint(options.db, collectionId)),
@@ -117,10 +119,13 @@ export function createApp(options: AppOptions): Express {
     pinoHttp({
       logger,
       autoLogging: { ignore: (req) => req.url === '/api/health' },
-      // Method, path and status only: headers carry session cookies.
+      // Method, path and status only: headers carry session cookies. The serializers read the
+      // request and response themselves (not pino's copies with every header, made per request).
+      wrapSerializers: false,
       serializers: {
         req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url }),
         res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+        err: pino.stdSerializers.err,
       },
     }),
   );
@@ -142,7 +147,7 @@ export function createApp(options: AppOptions): Express {
   }
   api.use(express.json({ limit: JSON_BODY_LIMIT }));
   api.use(originCheck(devOrigins));
-  api.use(sessionMiddleware(ctx.auth));
+  api.use(sessionMiddleware(ctx.auth, ctx.validateSession));
   // Any write to a collection makes this process forget its fingerprint, so the next
   // engine answer is checked against the database at once.
   api.use('/collections/:collectionId', (req, res, next) => {

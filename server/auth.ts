@@ -9,6 +9,12 @@ const ARGON2_OPTIONS = { memoryCost: 19456, timeCost: 2, parallelism: 1, outputL
 
 export const SESSION_LIFETIME = new TimeSpan(30, 'd');
 
+/** The user fields a signed-in request carries (Lucia's user attributes). */
+export const userAttributes = (attributes: { email: string; displayName: string }) => ({
+  email: attributes.email,
+  displayName: attributes.displayName,
+});
+
 export function createAuth(db: Database) {
   const adapter = new DrizzlePostgreSQLAdapter(db, sessions, users);
   return new Lucia(adapter, {
@@ -18,10 +24,7 @@ export function createAuth(db: Database) {
       // Secure is decided per request (see setSessionCookie) so plain http on loopback works.
       attributes: { secure: false, sameSite: 'lax' },
     },
-    getUserAttributes: (attributes) => ({
-      email: attributes.email,
-      displayName: attributes.displayName,
-    }),
+    getUserAttributes: userAttributes,
   });
 }
 

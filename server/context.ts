@@ -1,6 +1,7 @@
 import type { Logger } from 'pino';
 import type { Database } from '../db/client';
 import type { Auth } from './auth';
+import type { SessionValidator } from './middleware/session';
 import type { Mailer } from './mail/mailer';
 import type { PhotoStore } from './photos/store';
 import type { RateLimits } from './middleware/rate-limit';
@@ -11,6 +12,8 @@ import type { WeatherClient } from './weather/client';
 export interface AppContext {
   db: Database;
   auth: Auth;
+  /** Lucia's session check with a collection's membership in the same query (sessionMiddleware). */
+  validateSession: SessionValidator;
   logger: Logger;
   rateLimits: RateLimits;
   /** Each collection's record fingerprint, for the engine's answer cache. */

@@ -1,4 +1,4 @@
-import { and, eq } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import type { RequestHandler } from 'express';
 import { z } from 'zod';
 import type { Role } from '@/shared/schemas/auth';
@@ -22,24 +22,48 @@ export const requireUser: RequestHandler = (_req, res, next) => {
   next();
 };
 
-const collectionIdSchema = z.uuid();
+/** What a collection id in a path must be (anything else is a 404). */
+export const collectionIdSchema = z.uuid();
 
 /**
  * The one access guard for collection routes: anonymous → 401; not a member (or no such
  * collection, or a malformed id) → 404, so the existence of a collection is never revealed;
  * a member below `minimum` → 403.
  */
+/** One membership row, as a prepared query (built once, not per request). */
+const membershipLookups = new WeakMap<Database, ReturnType<typeof prepareMembershipLookup>>();
+
+function prepareMembershipLookup(db: Database) {
+  return db
+    .select({ collectionId: memberships.collectionId, userId: memberships.userId, role: memberships.role })
+    .from(memberships)
+    .where(and(eq(memberships.collectionId, sql.placeholder('collectionId')), eq(memberships.userId, sql.placeholder('userId'))))
+    .limit(1)
+    .prepare('membership_of_user');
+}
+
+function membershipLookup(db: Database) {
+  let lookup = membershipLookups.get(db);
+  if (!lookup) {
+    lookup = prepareMembershipLookup(db);
+    membershipLookups.set(db, lookup);
+  }
+  return lookup;
+}
+
 export function requireRole(db: Database, minimum: Role): RequestHandler {
+  const lookup = membershipLookup(db);
   return async (req, res, next) => {
     const user = res.locals.user;
     if (!user) return next(new HttpError(401, 'signed_out', 'Sign in to continue'));
     const parsed = collectionIdSchema.safeParse(req.params.collectionId);
     if (!parsed.success) return next(notFound('That collection'));
-    const [membership] = await db
-      .select({ collectionId: memberships.collectionId, userId: memberships.userId, role: memberships.role })
-      .from(memberships)
-      .where(and(eq(memberships.collectionId, parsed.data), eq(memberships.userId, user.id)))
-      .limit(1);
+    // Read with the session when the path named this collection (sessionMiddleware), else now.
+    const prefetched = res.locals.collectionAccess;
+    const membership =
+      prefetched && prefetched.collectionId === parsed.data
+        ? prefetched.membership
+        : ((await lookup.execute({ collectionId: parsed.data, userId: user.id }))[0] ?? null);
     if (!membership) return next(notFound('That collection'));
     if (RANK[membership.role] < RANK[minimum]) {
       return next(new HttpError(403, 'forbidden', `This needs the ${minimum} role in this collection`));
