@@ -22,6 +22,21 @@ function jsonForScript(value: unknown): string {
   return JSON.stringify(value).replace(/</g, '\\u003c').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
 }
 
+/** The app's own font files (the WOFF2 subsets under assets/), as URL paths. */
+function fontFiles(webRoot: string): string[] {
+  const found: string[] = [];
+  const walk = (dir: string) => {
+    for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+      const file = path.join(dir, entry.name);
+      if (entry.isDirectory()) walk(file);
+      else if (entry.name.endsWith('.woff2')) found.push(`/${path.relative(webRoot, file).split(path.sep).join('/')}`);
+    }
+  };
+  const assets = path.join(webRoot, 'assets');
+  if (fs.existsSync(assets)) walk(assets);
+  return found.sort();
+}
+
 function readManifest(webRoot: string): RouteChunkManifest {
   const file = path.join(webRoot, 'route-chunks.json');
   if (!fs.existsSync(file)) return {};
@@ -41,6 +56,11 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
   const manifest = readManifest(webRoot);
   const chunksFor = routeChunks(manifest);
   const routeOf = routeMatcher(manifest);
+  // Fonts are asked for only once the bundle has run and drawn text; named here they arrive
+  // alongside it, so the first screen is drawn in Source Sans 3 rather than swapped into it.
+  const fontPreloads = fontFiles(webRoot)
+    .map((href) => `<link rel="preload" as="font" type="font/woff2" crossorigin fetchpriority="low" href="${attribute(href)}">`)
+    .join('');
 
   app.use(
     expressStaticGzip(webRoot, {
@@ -89,6 +109,7 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
     const me = await signedIn(req, res);
     const collectionId = me ? currentCollection(req, me) : undefined;
     const head = [
+      fontPreloads,
       // Low, as the deferred bundle they follow is: the bundle runs first, so they must not take its bandwidth.
       // The href exactly as the router's loader will ask for it (brackets and all), or the browser
       // would not match the two and would fetch the chunk twice.

@@ -46,6 +46,8 @@ describe('serving the web build', () => {
     // Quality 1: bytes that compressing on the fly (at its default quality) would not give.
     await fs.writeFile(path.join(chunks, 'entry-abc123.js.br'), zlib.brotliCompressSync(BUNDLE, { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 1 } }));
     await fs.writeFile(path.join(chunks, 'entry-abc123.js.gz'), zlib.gzipSync(BUNDLE, { level: 1 }));
+    await fs.mkdir(path.join(webRoot, 'assets', 'assets', 'fonts'), { recursive: true });
+    await fs.writeFile(path.join(webRoot, 'assets', 'assets', 'fonts', 'Face_400.latin.abc.woff2'), 'wOF2');
     await fs.writeFile(
       path.join(webRoot, 'route-chunks.json'),
       JSON.stringify({
@@ -93,10 +95,12 @@ describe('serving the web build', () => {
     expect(plain.body.toString()).toBe(BUNDLE);
   });
 
-  it("names the chunks of the page's route as preloads, layouts first", async () => {
+  it("names the chunks of the page's route as preloads, layouts first, and the fonts", async () => {
     const today = await supertest(server.url).get('/');
     const preloads = [...today.text.matchAll(/<link rel="preload" as="script" fetchpriority="low" href="([^"]+)">/g)].map((m) => m[1]);
     expect(preloads).toEqual(['/_expo/static/js/web/_layout-1.js', '/_expo/static/js/web/_layout-2.js', '/_expo/static/js/web/index-3.js']);
+    // The app's fonts too, in the CORS mode the browser fetches fonts with.
+    expect(today.text).toContain('<link rel="preload" as="font" type="font/woff2" crossorigin fetchpriority="low" href="/assets/assets/fonts/Face_400.latin.abc.woff2">');
     const lead = await supertest(server.url).get('/plants/p1/leads/l2');
     // As the router's loader writes it: a percent-escaped name would be a different URL to the browser.
     expect(lead.text).toContain('href="/_expo/static/js/web/[leadId]-4.js"');
