@@ -123,6 +123,7 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
     // The page now carries the person's name and collections: never shared, never stored.
     res.set('Cache-Control', 'private, no-store');
     res.set('Vary', 'Cookie');
-    res.type('html').send(template.includes('</head>') ? template.replace('</head>', `${head}</head>`) : head + template);
+    // A function as the replacement, so a `$&` or `$'` in someone's name is not read as a pattern.
+    res.type('html').send(template.includes('</head>') ? template.replace('</head>', () => `${head}</head>`) : head + template);
   });
 }

@@ -149,7 +149,8 @@ describe('serving the web build', () => {
 
   it('writes a name that looks like markup so it cannot end the script element', async () => {
     const db = testDb();
-    const name = '</script><script>alert(1)</script> <!-- Ann';
+    // `$'` and `$&` would be replacement patterns to String.replace.
+    const name = "</script><script>alert(1)</script> <!-- Ann $' $& $$";
     const user = await insertUser(db, { displayName: name });
     const cookie = await sessionCookieFor(db, user.id);
     const page = await supertest(server.url).get('/').set('Cookie', cookie);
