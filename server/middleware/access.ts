@@ -25,11 +25,6 @@ export const requireUser: RequestHandler = (_req, res, next) => {
 /** What a collection id in a path must be (anything else is a 404). */
 export const collectionIdSchema = z.uuid();
 
-/**
- * The one access guard for collection routes: anonymous → 401; not a member (or no such
- * collection, or a malformed id) → 404, so the existence of a collection is never revealed;
- * a member below `minimum` → 403.
- */
 /** One membership row, as a prepared query (built once, not per request). */
 const membershipLookups = new WeakMap<Database, ReturnType<typeof prepareMembershipLookup>>();
 
@@ -51,6 +46,11 @@ function membershipLookup(db: Database) {
   return lookup;
 }
 
+/**
+ * The one access guard for collection routes: anonymous → 401; not a member (or no such
+ * collection, or a malformed id) → 404, so the existence of a collection is never revealed;
+ * a member below `minimum` → 403.
+ */
 export function requireRole(db: Database, minimum: Role): RequestHandler {
   const lookup = membershipLookup(db);
   return async (req, res, next) => {

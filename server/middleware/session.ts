@@ -105,20 +105,30 @@ function collectionInPath(path: string): string | null {
 }
 
 /**
- * Reads the session cookie; a session near expiry is extended and its cookie renewed. On a
- * collection's path, the membership of that collection comes with it (`collectionAccess`).
+ * The request's session from its cookie, or null: a cookie whose session is gone is cleared, and
+ * a session near expiry is extended and its cookie renewed. Throws when the database cannot say.
+ */
+export async function readSession(auth: Auth, validate: SessionValidator, req: Request, res: Response, collectionId: string | null): Promise<ValidatedSession | null> {
+  const sessionId = auth.readSessionCookie(req.headers.cookie ?? '');
+  if (!sessionId) return null;
+  const found = await validate(sessionId, collectionId);
+  if (!found) {
+    setSessionCookie(auth, req, res, null);
+    return null;
+  }
+  if (found.session.fresh) setSessionCookie(auth, req, res, found.session.id);
+  return found;
+}
+
+/**
+ * Reads the session cookie (`readSession`). On a collection's path, the membership of that
+ * collection comes with it (`collectionAccess`).
  */
 export function sessionMiddleware(auth: Auth, validate: SessionValidator): RequestHandler {
   return async (req, res, next) => {
-    const sessionId = auth.readSessionCookie(req.headers.cookie ?? '');
-    if (!sessionId) return next();
     const collectionId = collectionInPath(req.path);
-    const found = await validate(sessionId, collectionId);
-    if (!found) {
-      setSessionCookie(auth, req, res, null);
-      return next();
-    }
-    if (found.session.fresh) setSessionCookie(auth, req, res, found.session.id);
+    const found = await readSession(auth, validate, req, res, collectionId);
+    if (!found) return next();
     res.locals.user = found.user;
     res.locals.session = found.session;
     if (collectionId) res.locals.collectionAccess = { collectionId, membership: found.membership };

@@ -178,9 +178,9 @@ export async function updatePlant(db: Database, collectionId: string, plantId: s
   throw new StaleError(toPlant(await requirePlant(db, collectionId, plantId)));
 }
 
-/** Leads, measurements, bloom records and care entries go with the plant; divisions keep theirs. */
 /**
- * Deletes a plant with its records (owners only, by the route). A read-only history copy may be
+ * Deletes a plant with its records (owners only, by the route): leads, measurements, bloom
+ * records and care entries go with it; divisions keep theirs. A read-only history copy may be
  * deleted too: it is the owner's to keep or drop, and a division that inherited from it simply
  * loses that history (its parent link is cleared).
  */

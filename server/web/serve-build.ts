@@ -7,7 +7,7 @@ import type { Me } from '@/shared/schemas/auth';
 import { BOOT_ELEMENT_ID, CURRENT_COLLECTION_COOKIE } from '@/shared/boot';
 import type { AppContext } from '../context';
 import { HttpError } from '../errors';
-import { setSessionCookie } from '../middleware/session';
+import { readSession } from '../middleware/session';
 import { describeMe } from '../services/me';
 import { firstRequests } from './data-preloads';
 import { routeChunks, routeMatcher, type RouteChunkManifest } from './route-chunks';
@@ -49,7 +49,7 @@ function readManifest(webRoot: string): RouteChunkManifest {
  * its route loads as preloads, and carries who is signed in, so the first screen does not wait
  * for a session request after the bundle has run.
  */
-export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContext, 'db' | 'auth'>, logger: Logger): void {
+export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContext, 'db' | 'auth' | 'validateSession'>, logger: Logger): void {
   const indexFile = path.join(webRoot, 'index.html');
   if (!fs.existsSync(indexFile)) throw new Error(`No web build at ${webRoot}; run npm run build:web`);
   const template = fs.readFileSync(indexFile, 'utf8');
@@ -81,16 +81,9 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
 
   /** Who is signed in: `null` for nobody, `undefined` when it cannot be told now (the page then asks itself). */
   async function signedIn(req: Request, res: Response): Promise<Me | null | undefined> {
-    const sessionId = ctx.auth.readSessionCookie(req.headers.cookie ?? '');
-    if (!sessionId) return null;
     try {
-      const { session, user } = await ctx.auth.validateSession(sessionId);
-      if (!session) {
-        setSessionCookie(ctx.auth, req, res, null);
-        return null;
-      }
-      if (session.fresh) setSessionCookie(ctx.auth, req, res, session.id);
-      return await describeMe(ctx.db, user);
+      const found = await readSession(ctx.auth, ctx.validateSession, req, res, null);
+      return found ? await describeMe(ctx.db, found.user) : null;
     } catch (error) {
       logger.warn({ err: error }, 'page served without the session: it could not be read');
       return undefined;

@@ -97,8 +97,8 @@ function normalEquations(
   return Number.isFinite(sse) ? sse : Infinity;
 }
 
-/** Cholesky solve of the k×k row-major SPD matrix m against v into out, using l as scratch; false if not SPD. */
-function choleskySolveFlat(m: Float64Array, v: Float64Array, k: number, l: Float64Array, out: Float64Array): boolean {
+/** Cholesky factor of the k×k row-major SPD matrix m into the lower triangle of l; false if not SPD. */
+function choleskyFactorFlat(m: Float64Array, k: number, l: Float64Array): boolean {
   for (let i = 0; i < k; i++) {
     for (let j = 0; j <= i; j++) {
       let s = m[i * k + j];
@@ -111,6 +111,11 @@ function choleskySolveFlat(m: Float64Array, v: Float64Array, k: number, l: Float
       }
     }
   }
+  return true;
+}
+
+/** Solves L·Lᵀ·z = v for the factor in l, into out (which may be v itself). */
+function choleskySubstituteFlat(l: Float64Array, k: number, v: Float64Array, out: Float64Array): void {
   for (let i = 0; i < k; i++) {
     let s = v[i];
     for (let q = 0; q < i; q++) s -= l[i * k + q] * out[q];
@@ -121,37 +126,21 @@ function choleskySolveFlat(m: Float64Array, v: Float64Array, k: number, l: Float
     for (let q = i + 1; q < k; q++) s -= l[q * k + i] * out[q];
     out[i] = s / l[i * k + i];
   }
+}
+
+/** Cholesky solve of the k×k row-major SPD matrix m against v into out, using l as scratch; false if not SPD. */
+function choleskySolveFlat(m: Float64Array, v: Float64Array, k: number, l: Float64Array, out: Float64Array): boolean {
+  if (!choleskyFactorFlat(m, k, l)) return false;
+  choleskySubstituteFlat(l, k, v, out);
   return true;
 }
 
-/**
- * Inverse of the k×k row-major SPD matrix m into inv, factored once (Cholesky, into l) and solved
- * for each unit vector with the same operations as `invertSpd`; false if not SPD.
- */
+/** Inverse of the k×k row-major SPD matrix m into inv, factored once and solved for each unit vector; false if not SPD. */
 function invertSpdFlat(m: Float64Array, k: number, l: Float64Array, inv: Float64Array, col: Float64Array): boolean {
-  for (let i = 0; i < k; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = m[i * k + j];
-      for (let q = 0; q < j; q++) s -= l[i * k + q] * l[j * k + q];
-      if (i === j) {
-        if (!(s > 0) || !Number.isFinite(s)) return false;
-        l[i * k + i] = Math.sqrt(s);
-      } else {
-        l[i * k + j] = s / l[j * k + j];
-      }
-    }
-  }
+  if (!choleskyFactorFlat(m, k, l)) return false;
   for (let c = 0; c < k; c++) {
-    for (let i = 0; i < k; i++) {
-      let s = i === c ? 1 : 0;
-      for (let q = 0; q < i; q++) s -= l[i * k + q] * col[q];
-      col[i] = s / l[i * k + i];
-    }
-    for (let i = k - 1; i >= 0; i--) {
-      let s = col[i];
-      for (let q = i + 1; q < k; q++) s -= l[q * k + i] * col[q];
-      col[i] = s / l[i * k + i];
-    }
+    for (let i = 0; i < k; i++) col[i] = i === c ? 1 : 0;
+    choleskySubstituteFlat(l, k, col, col);
     for (let r = 0; r < k; r++) inv[r * k + c] = col[r];
   }
   return true;
@@ -227,53 +216,6 @@ function newWorkspace(k: number): Workspace {
 
 let sharedWorkspace: Workspace | null = null;
 let sharedWorkspaceBusy = false;
-
-/**
- * Solves the symmetric positive-definite system M·z = v by Cholesky factorization.
- * Returns null when M is not numerically positive definite.
- */
-export function solveSpd(m: readonly (readonly number[])[], v: readonly number[]): number[] | null {
-  const k = v.length;
-  const l = Array.from({ length: k }, () => new Array<number>(k).fill(0));
-  for (let i = 0; i < k; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = m[i][j];
-      for (let q = 0; q < j; q++) s -= l[i][q] * l[j][q];
-      if (i === j) {
-        if (!(s > 0) || !Number.isFinite(s)) return null;
-        l[i][i] = Math.sqrt(s);
-      } else {
-        l[i][j] = s / l[j][j];
-      }
-    }
-  }
-  const z = new Array<number>(k).fill(0);
-  for (let i = 0; i < k; i++) {
-    let s = v[i];
-    for (let q = 0; q < i; q++) s -= l[i][q] * z[q];
-    z[i] = s / l[i][i];
-  }
-  for (let i = k - 1; i >= 0; i--) {
-    let s = z[i];
-    for (let q = i + 1; q < k; q++) s -= l[q][i] * z[q];
-    z[i] = s / l[i][i];
-  }
-  return z;
-}
-
-/** Inverse of a symmetric positive-definite matrix (column by column via Cholesky); null if singular. */
-export function invertSpd(m: readonly (readonly number[])[]): number[][] | null {
-  const k = m.length;
-  const inv = Array.from({ length: k }, () => new Array<number>(k).fill(0));
-  for (let c = 0; c < k; c++) {
-    const e = new Array<number>(k).fill(0);
-    e[c] = 1;
-    const col = solveSpd(m, e);
-    if (!col) return null;
-    for (let r = 0; r < k; r++) inv[r][c] = col[r];
-  }
-  return inv;
-}
 
 /**
  * Minimizes Σ (y_i − f(x_i; p))² from the start `p0`.

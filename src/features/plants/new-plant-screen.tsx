@@ -10,7 +10,7 @@ import { Card } from '@/components/card';
 import { Chip } from '@/components/chip';
 import { FormTextField } from '@/components/form-text-field';
 import { TextField } from '@/components/text-field';
-import { genusDefaultsFor } from '@/domain/genus-defaults';
+import { parseNumber } from '@/components/number-field';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
 import { COMMON_GENERA, COMMON_MEDIA } from '@/shared/genera';
@@ -20,6 +20,7 @@ import { spacing } from '@/theme';
 import { FormError } from '../auth/form-error';
 import { applyServerErrors } from '../auth/use-server-errors';
 import { useCollectionSettings } from '../collections/use-collection-settings';
+import { nightLimitHint } from './night-limit';
 
 type Values = z.input<typeof plantInputSchema>;
 const FIELDS = ['tag', 'genus', 'epithet', 'clonalName', 'source', 'acquiredOn', 'areaId', 'medium', 'notes', 'minNightTempC'] as const;
@@ -30,18 +31,16 @@ const FIELDS = ['tag', 'genus', 'epithet', 'clonalName', 'source', 'acquiredOn',
  */
 function NightLimitField({ genus, onChange, error }: { genus: string; onChange: (value: number | null) => void; error?: string }) {
   const [text, setText] = useState('');
-  const defaultC = genusDefaultsFor(genus.trim()).minNightTempC;
   return (
     <TextField
       label="Lowest night temperature, °C (optional)"
       value={text}
       onChangeText={(next) => {
         setText(next);
-        const trimmed = next.trim().replace(',', '.');
-        onChange(trimmed === '' ? null : Number(trimmed));
+        onChange(parseNumber(next));
       }}
       inputMode="decimal"
-      hint={`Bring in below this. Blank uses the ${genus.trim() || 'genus'} default of ${defaultC} °C.`}
+      hint={nightLimitHint(genus)}
       error={error}
       testID="plant-min-night"
     />

@@ -8,9 +8,9 @@ import { Chip } from '@/components/chip';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
 import { parseNumber } from '@/components/number-field';
-import { genusDefaultsFor } from '@/domain/genus-defaults';
 import type { Area, PlantDetail } from '@/shared/schemas/records';
 import { spacing } from '@/theme';
+import { nightLimitHint } from '../night-limit';
 
 /** Edits the plant's record; a save over someone else's newer change is refused and explained. */
 export function EditPlantForm({ collectionId, plant, areas, onDone }: { collectionId: string; plant: PlantDetail; areas: Area[]; onDone: () => void }) {
@@ -24,7 +24,6 @@ export function EditPlantForm({ collectionId, plant, areas, onDone }: { collecti
   const [minNight, setMinNight] = useState(plant.minNightTempC === null ? '' : String(plant.minNightTempC));
   const [minNightError, setMinNightError] = useState<string | undefined>();
   const error = update.error instanceof ApiError ? update.error : undefined;
-  const genusLimit = genusDefaultsFor(plant.genus).minNightTempC;
 
   return (
     <View style={styles.form} testID="edit-plant-form">
@@ -50,7 +49,7 @@ export function EditPlantForm({ collectionId, plant, areas, onDone }: { collecti
           setMinNightError(undefined);
         }}
         inputMode="decimal"
-        hint={`Bring in below this. Blank uses the ${plant.genus} default of ${genusLimit} °C.`}
+        hint={nightLimitHint(plant.genus)}
         error={minNightError ?? error?.fieldError('minNightTempC')}
         testID="plant-min-night"
       />
