@@ -306,6 +306,29 @@ export const photos = pgTable(
   ],
 );
 
+/**
+ * One row per photo upload that carried a client key: the key a browser chose before
+ * sending. A resent upload with the same key gets the photo already stored, and a cancel
+ * takes the same row, so upload and cancel are ordered by the row whichever comes first:
+ * a cancel before the upload is stored refuses it, a cancel after removes the photo.
+ */
+export const photoUploads = pgTable(
+  'photo_uploads',
+  {
+    collectionId: uuid('collection_id')
+      .notNull()
+      .references(() => collections.id, { onDelete: 'cascade' }),
+    clientKey: uuid('client_key').notNull(),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    photoId: uuid('photo_id').references(() => photos.id, { onDelete: 'set null' }),
+    cancelledAt: timestamp('cancelled_at', { withTimezone: true, mode: 'date' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.collectionId, t.clientKey] })],
+);
+
 /** An owner's invitation by e-mail; the link's token is stored only as its SHA-256 hash. */
 export const invitations = pgTable(
   'invitations',

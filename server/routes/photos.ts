@@ -1,11 +1,12 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
-import { photoListQuerySchema, photoListSchema, photoSchema, photoSizeSchema, photoUploadFieldsSchema } from '@/shared/schemas/photos';
+import { z } from 'zod';
+import { photoListQuerySchema, photoClientKeySchema, photoListSchema, photoSchema, photoSizeSchema, photoUploadCancelSchema, photoUploadFieldsSchema } from '@/shared/schemas/photos';
 import type { AppContext } from '../context';
 import { fieldError, HttpError, notFound } from '../errors';
 import { requireRole } from '../middleware/access';
 import { PHOTO_MAX_BYTES, processPhoto } from '../photos/process';
-import { addPhoto, deletePhoto, listPhotos, readPhotoFile } from '../services/photos';
+import { addPhoto, cancelUpload, deletePhoto, earlierUpload, listPhotos, readPhotoFile } from '../services/photos';
 import { pathId } from '../services/records-support';
 import { parse } from '../validate';
 import { todayUtc } from './engine';
@@ -44,10 +45,20 @@ export function photoRoutes({ db, photos }: AppContext): Router {
   router.post(`${base}/photos`, grower, receivePhoto, async (req, res) => {
     const fields = parse(photoUploadFieldsSchema, { ...req.body });
     if (!req.file) throw fieldError('photo', 'Attach a photo in the field "photo"');
+    const member = res.locals.membership!;
+    // A resend of an upload already stored (or cancelled) is answered before any decoding.
+    const earlier = fields.clientKey ? await earlierUpload(db, member, fields.clientKey) : null;
+    if (earlier) return void res.status(200).json(photoSchema.parse(earlier));
     const today = todayUtc();
     const processed = await processPhoto(req.file.buffer, today);
-    const photo = await addPhoto(db, photos, res.locals.membership!, fields, processed, req.file.size, today);
-    res.status(201).json(photoSchema.parse(photo));
+    const { photo, created } = await addPhoto(db, photos, member, fields, processed, req.file.size, today);
+    res.status(created ? 201 : 200).json(photoSchema.parse(photo));
+  });
+
+  /** Cancels an upload by the key it was sent under, before or after it arrived (idempotent). */
+  router.delete(`${base}/photo-uploads/:clientKey`, grower, async (req, res) => {
+    const { clientKey } = parse(z.object({ clientKey: photoClientKeySchema }), { clientKey: req.params.clientKey }, 'params');
+    res.json(photoUploadCancelSchema.parse(await cancelUpload(db, photos, res.locals.membership!, clientKey)));
   });
 
   router.get(`${base}/photos`, viewer, async (req, res) => {

@@ -1,9 +1,9 @@
 import { randomUUID } from 'node:crypto';
-import { and, asc, eq } from 'drizzle-orm';
+import { and, asc, eq, sql } from 'drizzle-orm';
 import type { Role } from '@/shared/schemas/auth';
-import type { Photo, PhotoSize, PhotoUploadFields } from '@/shared/schemas/photos';
+import type { Photo, PhotoSize, PhotoUploadCancel, PhotoUploadFields } from '@/shared/schemas/photos';
 import type { Database } from '../../db/client';
-import { leads, measurements, photos } from '../../db/schema';
+import { leads, measurements, photos, photoUploads } from '../../db/schema';
 import { HttpError, notFound } from '../errors';
 import type { ProcessedPhoto } from '../photos/process';
 import type { PhotoStore } from '../photos/store';
@@ -58,9 +58,40 @@ async function resolveTarget(db: Database, collectionId: string, fields: PhotoUp
   return { plantId: plant.id, leadId: null, measurementId: null, date: null };
 }
 
+export interface AddedPhoto {
+  photo: Photo;
+  /** False when the upload's key had already stored this photo (a resend). */
+  created: boolean;
+}
+
+/** An earlier upload's key was taken inside the transaction: the row is rolled back. */
+class UploadKeyTaken extends Error {}
+
 /**
- * Stores both sizes, then the row. When the row cannot be written the files are removed
- * again, so a refused or failed upload leaves neither a row nor a file behind.
+ * What an earlier upload under `clientKey` came to: its photo, or a 409 when it was
+ * cancelled, its photo has since been deleted, or the key is someone else's. Null when the
+ * key is new.
+ */
+export async function earlierUpload(db: Database, member: Member, clientKey: string): Promise<Photo | null> {
+  const [upload] = await db
+    .select()
+    .from(photoUploads)
+    .where(and(eq(photoUploads.collectionId, member.collectionId), eq(photoUploads.clientKey, clientKey)))
+    .limit(1);
+  if (!upload) return null;
+  const refuse = (code: string, message: string, reason: string) =>
+    new HttpError(409, code, message, [{ field: 'clientKey', reason }]);
+  if (upload.userId !== member.userId) throw refuse('client_key_reused', 'That upload key was already used; send a fresh key', 'already used');
+  if (upload.cancelledAt) throw refuse('upload_cancelled', 'This upload was cancelled; choose the photo again to send it', 'cancelled');
+  if (!upload.photoId) throw refuse('upload_photo_deleted', 'This upload was stored and its photo has since been deleted', 'photo deleted');
+  return toPhoto(await requirePhoto(db, member.collectionId, upload.photoId));
+}
+
+/**
+ * Stores both sizes, then the row, and with a client key the key's claim in the same
+ * transaction. When the row cannot be written the files are removed again, so a refused,
+ * cancelled or failed upload leaves neither a row nor a file behind; a resend under a key
+ * that already stored its photo gets that photo.
  */
 export async function addPhoto(
   db: Database,
@@ -70,7 +101,7 @@ export async function addPhoto(
   processed: ProcessedPhoto,
   uploadedBytes: number,
   today: string,
-): Promise<Photo> {
+): Promise<AddedPhoto> {
   const { collectionId } = member;
   assertNotFuture(fields.takenOn, 'takenOn');
   const target = await resolveTarget(db, collectionId, fields);
@@ -81,30 +112,73 @@ export async function addPhoto(
   try {
     await store.put(keys[0], processed.display.data, WEBP);
     await store.put(keys[1], processed.thumb.data, WEBP);
-    const [row] = await db
-      .insert(photos)
-      .values({
-        id,
-        collectionId,
-        plantId: target.plantId,
-        leadId: target.leadId,
-        measurementId: target.measurementId,
-        takenOn: target.date ?? fields.takenOn ?? processed.takenOn ?? today,
-        storageKey,
-        width: processed.display.width,
-        height: processed.display.height,
-        thumbWidth: processed.thumb.width,
-        thumbHeight: processed.thumb.height,
-        bytes: uploadedBytes,
-        caption: fields.caption ?? null,
-        uploadedBy: member.userId,
-      })
-      .returning();
-    return toPhoto(row);
+    const row = await db.transaction(async (tx) => {
+      const [inserted] = await tx
+        .insert(photos)
+        .values({
+          id,
+          collectionId,
+          plantId: target.plantId,
+          leadId: target.leadId,
+          measurementId: target.measurementId,
+          takenOn: target.date ?? fields.takenOn ?? processed.takenOn ?? today,
+          storageKey,
+          width: processed.display.width,
+          height: processed.display.height,
+          thumbWidth: processed.thumb.width,
+          thumbHeight: processed.thumb.height,
+          bytes: uploadedBytes,
+          caption: fields.caption ?? null,
+          uploadedBy: member.userId,
+        })
+        .returning();
+      if (fields.clientKey) {
+        // Waits for a cancel or resend holding the same key, then finds its row taken.
+        const claimed = await tx
+          .insert(photoUploads)
+          .values({ collectionId, clientKey: fields.clientKey, userId: member.userId, photoId: id })
+          .onConflictDoNothing()
+          .returning({ photoId: photoUploads.photoId });
+        if (claimed.length === 0) throw new UploadKeyTaken();
+      }
+      return inserted;
+    });
+    return { photo: toPhoto(row), created: true };
   } catch (error) {
     await store.delete(keys).catch(() => {});
+    if (error instanceof UploadKeyTaken && fields.clientKey) {
+      const earlier = await earlierUpload(db, member, fields.clientKey);
+      if (earlier) return { photo: earlier, created: false };
+    }
     throw error;
   }
+}
+
+/**
+ * Cancels the upload sent under `clientKey`, whether or not it has reached the server. The
+ * key's row is taken first, so an upload still on its way is refused when it arrives, and
+ * one already stored is removed with its files.
+ */
+export async function cancelUpload(db: Database, store: PhotoStore, member: Member, clientKey: string): Promise<PhotoUploadCancel> {
+  const removed = await db.transaction(async (tx) => {
+    const [upload] = await tx
+      .insert(photoUploads)
+      .values({ collectionId: member.collectionId, clientKey, userId: member.userId, cancelledAt: new Date() })
+      .onConflictDoUpdate({
+        target: [photoUploads.collectionId, photoUploads.clientKey],
+        set: { cancelledAt: sql`coalesce(${photoUploads.cancelledAt}, now())` },
+        setWhere: eq(photoUploads.userId, member.userId),
+      })
+      .returning({ photoId: photoUploads.photoId });
+    if (!upload) {
+      throw new HttpError(409, 'client_key_reused', 'That upload key belongs to someone else’s upload', [{ field: 'clientKey', reason: 'not yours' }]);
+    }
+    if (!upload.photoId) return null;
+    const [photo] = await tx.delete(photos).where(eq(photos.id, upload.photoId)).returning({ storageKey: photos.storageKey });
+    return photo ?? null;
+  });
+  if (removed) await store.delete([photoKey(removed.storageKey, 'display'), photoKey(removed.storageKey, 'thumb')]);
+  return { removed: Boolean(removed) };
 }
 
 /** A plant's photos (every lead's and its own) or one lead's, oldest first. */

@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
@@ -50,6 +51,8 @@ beforeAll(async () => {
     // B's own member who is not in A: changing or removing them through A must not reach B.
     userId: b.people.grower.id,
     handoffId: handoff.id,
+    // An upload key, which names no record: only B's collection id in the path can reach B.
+    clientKey: randomUUID(),
   };
 });
 

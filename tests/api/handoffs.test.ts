@@ -40,7 +40,7 @@ async function storedFiles(root = photoDir): Promise<string[]> {
 
 async function photoOn(leadId: string, collectionId: string, userId: string, takenOn: string, photoStore = store) {
   const processed = await processPhoto(await cameraJpeg({ width: 240, height: 160, orientation: 1 }), today());
-  return addPhoto(testDb(), photoStore, { collectionId, userId, role: 'grower' }, { leadId, takenOn, caption: null }, processed, 1000, today());
+  return (await addPhoto(testDb(), photoStore, { collectionId, userId, role: 'grower' }, { leadId, takenOn, caption: null }, processed, 1000, today())).photo;
 }
 
 /** A signed-in person with a collection of their own (owner), outside the giver's collection. */

@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
@@ -291,6 +292,96 @@ describe('fetching and deleting photos', () => {
     } finally {
       await broken.close();
     }
+  });
+});
+
+describe('sending under a client key', () => {
+  const jpeg = async () => ({ data: await cameraJpeg({ width: 300, height: 200 }), name: 'a.jpg', type: 'image/jpeg' });
+  const filesOf = (id: string) => filesUnder(photoDir).then((files) => files.filter((f) => f.includes(id)));
+  const rowsOf = (leadId: string) => testDb().select().from(photos).where(eq(photos.leadId, leadId));
+
+  it('a resend under the same key is stored once and answered with the first photo', async () => {
+    const { w, lead } = await photoWorld();
+    const clientKey = randomUUID();
+    const first = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+    expect(first.status, JSON.stringify(first.body)).toBe(201);
+    const again = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+    expect(again.status, JSON.stringify(again.body)).toBe(200);
+    expect(again.body.id).toBe(first.body.id);
+    expect(await rowsOf(lead.id)).toHaveLength(1);
+    expect(await filesOf(first.body.id)).toHaveLength(2);
+  });
+
+  it('a cancel after the photo arrived removes it and its files; it is idempotent and a late resend is refused', async () => {
+    const { w, lead } = await photoWorld();
+    const clientKey = randomUUID();
+    const stored = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+    expect(stored.status).toBe(201);
+    const cancelled = await w.grower.delete(w.at(`/photo-uploads/${clientKey}`));
+    expect(cancelled.status, JSON.stringify(cancelled.body)).toBe(200);
+    expect(cancelled.body).toEqual({ removed: true });
+    expect(await rowsOf(lead.id)).toEqual([]);
+    expect(await filesOf(stored.body.id)).toEqual([]);
+    expect((await fetchFile(w, 'grower', stored.body.thumbUrl)).status).toBe(404);
+    expect((await w.grower.delete(w.at(`/photo-uploads/${clientKey}`))).body).toEqual({ removed: false });
+    const late = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+    expectRefused(late, 409);
+    expect(late.body.error).toMatchObject({ code: 'upload_cancelled', details: [{ field: 'clientKey', reason: 'cancelled' }] });
+    expect(await rowsOf(lead.id)).toEqual([]);
+  });
+
+  it('a cancel that arrives before the photo refuses it, leaving no row and no file', async () => {
+    const { w, lead } = await photoWorld();
+    const clientKey = randomUUID();
+    expect((await w.grower.delete(w.at(`/photo-uploads/${clientKey}`))).body).toEqual({ removed: false });
+    const filesBefore = await filesUnder(photoDir);
+    const res = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+    expectRefused(res, 409);
+    expect(res.body.error.code).toBe('upload_cancelled');
+    expect(await rowsOf(lead.id)).toEqual([]);
+    expect(await filesUnder(photoDir)).toEqual(filesBefore);
+  });
+
+  it('an upload and its cancel sent at the same moment never leave the photo behind', async () => {
+    const { w, lead } = await photoWorld();
+    const file = await jpeg();
+    const outcomes = await Promise.all(
+      Array.from({ length: 12 }, async (_, i) => {
+        const clientKey = randomUUID();
+        const [sent, cancelled] = await Promise.all([
+          upload(w, 'grower', { leadId: lead.id, clientKey }, file),
+          // Cancels leave from at once to well after, so both orders are exercised.
+          new Promise((resolve) => setTimeout(resolve, i * 30)).then(() => w.grower.delete(w.at(`/photo-uploads/${clientKey}`))),
+        ]);
+        expect(cancelled.status).toBe(200);
+        // Whichever came first, the two answers agree: stored and then removed, or refused.
+        if (sent.status === 201) expect(cancelled.body.removed, 'a stored photo must be removed by its cancel').toBe(true);
+        else expect(sent.body.error?.code).toBe('upload_cancelled');
+        return sent.status;
+      }),
+    );
+    expect(outcomes.every((status) => status === 201 || status === 409)).toBe(true);
+    expect(await rowsOf(lead.id)).toEqual([]);
+  });
+
+  it('a key is its sender’s: no one else can cancel or reuse it; a viewer cannot cancel; a bad key is named', async () => {
+    const { w, lead } = await photoWorld();
+    const clientKey = randomUUID();
+    const stored = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+    expect(stored.status).toBe(201);
+    const byOwner = await w.owner.delete(w.at(`/photo-uploads/${clientKey}`));
+    expectRefused(byOwner, 409);
+    expect(byOwner.body.error.code).toBe('client_key_reused');
+    const reused = await upload(w, 'owner', { leadId: lead.id, clientKey }, await jpeg());
+    expectRefused(reused, 409);
+    expect(reused.body.error.code).toBe('client_key_reused');
+    expectRefused(await w.viewer.delete(w.at(`/photo-uploads/${clientKey}`)), 403);
+    expect((await w.outsider.delete(w.at(`/photo-uploads/${clientKey}`))).status).toBe(404);
+    const bad = await w.grower.delete(w.at('/photo-uploads/not-a-key'));
+    expectRefused(bad, 400);
+    expect(bad.body.error.details[0].field).toBe('params.clientKey');
+    expect(await rowsOf(lead.id)).toHaveLength(1);
+    expect(await filesOf(stored.body.id)).toHaveLength(2);
   });
 });
 

@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
@@ -112,6 +113,8 @@ const MATRIX: Record<string, Entry> = {
   'GET /api/collections/:collectionId/photos/:photoId/:size': { expected: MEMBERS('viewer', 200) },
   /** The fixture's photo was added by the grower, who may delete it. */
   'DELETE /api/collections/:collectionId/photos/:photoId': { expected: MEMBERS('grower', 204) },
+  /** A fresh key per request: cancelling an upload that has not arrived. */
+  'DELETE /api/collections/:collectionId/photo-uploads/:clientKey': { expected: MEMBERS('grower', 200) },
   // Import: growers and owners bring in spreadsheets; a JSON body is not a CSV file (415 once past the guard).
   'POST /api/collections/:collectionId/imports/mapping': { expected: MEMBERS('grower', 200), body: () => ({ headers: ['Tag', 'Lead'] }) },
   'POST /api/collections/:collectionId/imports/check': { expected: MEMBERS('grower', 415), body: () => ({}) },
@@ -198,6 +201,7 @@ describe('role matrix', () => {
       .replace(':handoffId', handoff.id)
       .replace(':token', template.includes('/handoffs/') ? handoff.token : invitation.token)
       .replace(':photoId', photo.id)
+      .replace(':clientKey', randomUUID())
       .replace(':size', 'thumb') + (entry.query ?? '').replace(':leadId', records.lead.id);
     const cookie = principal === 'anonymous' ? undefined : fixture.people[principal].cookie;
     const res = await browser(server.url, cookie).send(method.toLowerCase() as 'get', path, entry.body?.());

@@ -74,5 +74,5 @@ export async function insertPhoto(
 ) {
   const today = new Date().toISOString().slice(0, 10);
   const processed = await processPhoto(await cameraJpeg({ width: 240, height: 160, orientation: 1 }), today);
-  return addPhoto(db, store, member, { leadId, caption: null }, processed, 1000, today);
+  return (await addPhoto(db, store, member, { leadId, caption: null }, processed, 1000, today)).photo;
 }

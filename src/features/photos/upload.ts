@@ -1,7 +1,7 @@
-import { ApiError } from '@/api/client';
+import { ApiError, request } from '@/api/client';
 import { API_BASE_URL } from '@/lib/env';
 import { errorBodySchema } from '@/shared/schemas/errors';
-import { type Photo, photoSchema } from '@/shared/schemas/photos';
+import { type Photo, type PhotoUploadCancel, photoSchema, photoUploadCancelSchema } from '@/shared/schemas/photos';
 
 export interface Progress {
   loaded: number;
@@ -42,14 +42,22 @@ export interface PhotoTarget {
 
 /**
  * One multipart POST through XMLHttpRequest, which (unlike fetch) reports upload progress.
- * Only the file travels, with what it shows; the server reads the picture itself.
+ * Only the file travels, with what it shows and the upload's key; the server reads the
+ * picture itself. Every attempt carries the same key, so a resend is stored once and a
+ * cancel (`cancelUpload`) reaches the upload wherever it is.
  */
-export function xhrSend(collectionId: string, file: Blob & { name?: string }, target: PhotoTarget, takenOn?: string): SendOnce {
+export function xhrSend(
+  collectionId: string,
+  file: Blob & { name?: string },
+  target: PhotoTarget,
+  { clientKey, takenOn }: { clientKey: string; takenOn?: string },
+): SendOnce {
   return (onProgress, signal) =>
     new Promise<Photo>((resolve, reject) => {
       const form = new FormData();
       for (const [name, value] of Object.entries(target)) if (value) form.append(name, value);
       if (takenOn) form.append('takenOn', takenOn);
+      form.append('clientKey', clientKey);
       form.append('photo', file, file.name ?? 'photo');
 
       const xhr = new XMLHttpRequest();
@@ -65,7 +73,8 @@ export function xhrSend(collectionId: string, file: Blob & { name?: string }, ta
         } catch {
           body = null;
         }
-        if (xhr.status === 201) {
+        // 200: a resend of an upload the server already stored under this key.
+        if (xhr.status === 201 || xhr.status === 200) {
           const photo = photoSchema.safeParse(body);
           if (photo.success) return resolve(photo.data);
           return reject(new ApiError(xhr.status, 'unexpected', 'The server’s answer could not be read'));
@@ -82,6 +91,14 @@ export function xhrSend(collectionId: string, file: Blob & { name?: string }, ta
       signal.addEventListener('abort', () => xhr.abort(), { once: true });
       xhr.send(form);
     });
+}
+
+/**
+ * Tells the server that the upload sent under `clientKey` is cancelled. An upload still on
+ * its way is then refused; one that had already been stored is removed (`removed: true`).
+ */
+export function cancelUpload(collectionId: string, clientKey: string): Promise<PhotoUploadCancel> {
+  return request(`/collections/${collectionId}/photo-uploads/${clientKey}`, { method: 'DELETE', schema: photoUploadCancelSchema });
 }
 
 /** A short, readable size: "3.4 MB", "820 KB". */

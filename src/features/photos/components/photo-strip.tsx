@@ -12,7 +12,8 @@ import { formatDate } from '@/lib/dates';
 import { API_BASE_URL } from '@/lib/env';
 import type { Photo } from '@/shared/schemas/photos';
 import { colors, radius, spacing } from '@/theme';
-import { formatBytes, isCancelled, type PhotoTarget, type Progress, uploadWithRetry, xhrSend } from '../upload';
+import { newClientKey } from '@/lib/uuid';
+import { cancelUpload, formatBytes, isCancelled, type PhotoTarget, type Progress, uploadWithRetry, xhrSend } from '../upload';
 import { PhotoViewer } from './photo-viewer';
 
 const THUMB_HEIGHT = 96;
@@ -21,9 +22,11 @@ interface Upload {
   id: number;
   name: string;
   progress: Progress;
-  state: 'sending' | 'failed' | 'cancelled';
+  state: 'sending' | 'cancelling' | 'failed' | 'cancelled';
   error?: string;
   controller: AbortController;
+  /** The key every attempt is sent under, by which a cancel reaches the server. */
+  clientKey: string;
 }
 
 export interface PhotoStripProps {
@@ -54,18 +57,41 @@ export function PhotoStrip({ collectionId, subject, canWrite, canDelete, attachO
   async function send(file: File) {
     const id = nextId.current++;
     const controller = new AbortController();
-    setUploads((all) => [...all, { id, name: file.name || 'photo', progress: { loaded: 0, total: file.size }, state: 'sending', controller }]);
+    const clientKey = newClientKey();
+    setUploads((all) => [...all, { id, name: file.name || 'photo', progress: { loaded: 0, total: file.size }, state: 'sending', controller, clientKey }]);
     const target = attachOptions[Number(attach)]?.target ?? attachOptions[0].target;
     try {
-      await uploadWithRetry(xhrSend(collectionId, file, target), {
+      await uploadWithRetry(xhrSend(collectionId, file, target, { clientKey }), {
         signal: controller.signal,
         onProgress: (progress) => update(id, { progress }),
       });
+      // Cancelled as the answer came in: `cancel` removes it and says so.
+      if (controller.signal.aborted) return;
       setUploads((all) => all.filter((u) => u.id !== id));
       await client.invalidateQueries({ queryKey: photoKeys.all(collectionId) });
     } catch (error) {
-      if (isCancelled(error)) update(id, { state: 'cancelled' });
-      else update(id, { state: 'failed', error: error instanceof ApiError ? error.message : 'The photo could not be sent' });
+      if (isCancelled(error) || controller.signal.aborted) return;
+      update(id, { state: 'failed', error: error instanceof ApiError ? error.message : 'The photo could not be sent' });
+    }
+  }
+
+  /**
+   * Stops sending, then tells the server, which may already hold the whole file: only its
+   * answer makes "cancelled" true, so the row says "cancelling…" until then.
+   */
+  async function cancel(upload: Upload) {
+    upload.controller.abort();
+    update(upload.id, { state: 'cancelling' });
+    try {
+      await cancelUpload(collectionId, upload.clientKey);
+      update(upload.id, { state: 'cancelled' });
+    } catch {
+      update(upload.id, {
+        state: 'failed',
+        error: 'Stopped sending, but the server could not be told. If the photo shows up here, delete it.',
+      });
+    } finally {
+      await client.invalidateQueries({ queryKey: photoKeys.all(collectionId) });
     }
   }
 
@@ -138,7 +164,7 @@ export function PhotoStrip({ collectionId, subject, canWrite, canDelete, attachO
           <View key={u.id} style={styles.upload} testID="photo-upload">
             <Text variant="caption">
               {u.name} · {formatBytes(u.progress.total)}
-              {u.state === 'sending' ? ` · ${percent}%` : u.state === 'cancelled' ? ' · cancelled' : ''}
+              {u.state === 'sending' ? ` · ${percent}%` : u.state === 'cancelling' ? ' · cancelling…' : u.state === 'cancelled' ? ' · cancelled' : ''}
             </Text>
             {u.state === 'sending' ? (
               <View
@@ -159,8 +185,8 @@ export function PhotoStrip({ collectionId, subject, canWrite, canDelete, attachO
             ) : null}
             <View style={styles.actions}>
               {u.state === 'sending' ? (
-                <Button label="Cancel" tone="quiet" onPress={() => u.controller.abort()} accessibilityLabel={`Cancel sending ${u.name}`} />
-              ) : (
+                <Button label="Cancel" tone="quiet" onPress={() => cancel(u)} accessibilityLabel={`Cancel sending ${u.name}`} />
+              ) : u.state === 'cancelling' ? null : (
                 <Button label="Dismiss" tone="quiet" onPress={() => setUploads((all) => all.filter((x) => x.id !== u.id))} />
               )}
             </View>
