@@ -9,11 +9,13 @@ test('a grower adds a plant and a lead, records three measurements, marks the sh
   await page.getByTestId('add-plant').click();
   await expect(page.getByTestId('new-plant-screen')).toBeVisible();
   await page.getByTestId('plant-tag').fill(tag);
+  // With no genus yet, the night-limit hint promises no number.
+  await expect(page.getByText('Bring in below this. Left blank, the genus default is used once the genus is filled in.')).toBeVisible();
   await page.getByTestId('plant-genus').fill('C.');
   await page.getByTestId('plant-epithet').fill('Tidewater Glow');
   await page.getByTestId('plant-clonal').fill('Morning');
   await page.getByTestId('plant-medium').fill('bark');
-  await expect(page.getByText('Blank uses the C. default of 13 °C.')).toBeVisible();
+  await expect(page.getByText('Bring in below this. Blank uses the C. default of 13 °C.')).toBeVisible();
   await page.getByTestId('plant-min-night').fill('11.5');
   await page.getByTestId('save-plant').click();
 
@@ -121,4 +123,21 @@ test('Rounds: three plants measured with the network cut are each stored exactly
   await page.getByTestId('tab-today').click();
   await page.getByTestId('tab-rounds').click();
   await expect(page.getByTestId('rounds-progress')).toHaveText(here!);
+});
+
+test('a lead the grower marked dried off offers no sheath marks and nothing to end', async ({ page }) => {
+  await signInAs(page, 'grower');
+  const collectionId = await currentCollectionId(page);
+  const attention = await (await page.request.get(`/api/collections/${collectionId}/attention`)).json();
+  const driedOff = attention.items.find((i: { kind: string; reason: string }) => i.kind === 'aborted' && i.reason.includes('dried off'));
+  expect(driedOff, 'the demo collection has a lead marked dried off').toBeTruthy();
+  await page.goto(`/plants/${driedOff.target.plantId}/leads/${driedOff.target.leadId}`);
+  const screen = page.getByTestId('lead-screen');
+  await expect(screen.getByTestId('lead-status')).toContainText('Dried off');
+  await expect(screen.getByTestId('lead-summary')).toContainText('Last measured');
+  await expect(screen.getByText('Mark the sheath today')).toHaveCount(0);
+  await expect(screen.getByTestId('mark-sheath-budded')).toHaveCount(0);
+  await expect(screen.getByTestId('mark-dried-off')).toHaveCount(0);
+  // A late measurement can still be written down.
+  await expect(screen.getByTestId('add-measurement')).toBeVisible();
 });

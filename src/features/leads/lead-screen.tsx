@@ -47,6 +47,8 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
   const { collectionId, isOwner, units } = settings;
   // A lead of a read-only history copy (brought in with a division) takes no writes.
   const canWrite = settings.canWrite && !lead.plant.historyOnly;
+  // A lead that dried off, rotted or was removed has no sheath to watch and nothing to end.
+  const live = lead.status === 'growing' || lead.status === 'mature';
   const add = useAddMeasurementMutation(collectionId, lead.id);
   const mark = useMarkSheathMutation(collectionId, lead.id);
   const updateLead = useUpdateLeadMutation(collectionId, lead.id);
@@ -69,7 +71,7 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
           {lead.fromBackBulb ? ' · from a back bulb' : ''}
         </Text>
         <Text testID="lead-summary">{summary}</Text>
-        {canWrite && last ? (
+        {canWrite && live && last ? (
           <View style={styles.group}>
             <Text variant="label">Mark the sheath today</Text>
             <View style={styles.row}>
@@ -87,7 +89,7 @@ function LeadBody({ lead }: { lead: LeadDetail }) {
             {markError ? <Text color="danger">{markError}</Text> : null}
           </View>
         ) : null}
-        {canWrite && (lead.status === 'growing' || lead.status === 'mature') ? (
+        {canWrite && live ? (
           ending ? (
             <Confirm
               message={`Mark lead ${lead.label} as ${STATUS_LABELS[ending].toLowerCase()}? It stops counting as a growing lead.`}

@@ -122,6 +122,8 @@ export function NewPlantScreen() {
               </View>
             )}
           />
+          <FormTextField control={control} name="medium" label="Medium" testID="plant-medium" />
+          {/* Quick picks under the field they fill in, so the label names the field first. */}
           <Controller
             control={control}
             name="medium"
@@ -133,7 +135,6 @@ export function NewPlantScreen() {
               </View>
             )}
           />
-          <FormTextField control={control} name="medium" label="Medium" testID="plant-medium" />
           <FormTextField control={control} name="source" label="Source (optional)" />
           <FormTextField control={control} name="acquiredOn" label="Acquired on (optional)" hint="YYYY-MM-DD" />
           <Controller

@@ -10,16 +10,26 @@ import type { LeadChartData } from './chart-data';
 
 const SKIA_OPTIONS = { locateFile: (file: string) => `/${file}` };
 
+let canvasModule: Promise<typeof import('./lead-chart-canvas')> | null = null;
+
+/**
+ * As WithSkiaWeb does: CanvasKit first (the canvas module reads it when it loads), then the
+ * canvas. Shared by every chart, so one that mounts again (another lead, a layout change)
+ * neither loads CanvasKit nor asks for the chunk a second time; a failed load is forgotten,
+ * so the next chart tries again.
+ */
+function loadCanvas() {
+  canvasModule ??= LoadSkiaWeb(SKIA_OPTIONS)
+    .then(() => import('./lead-chart-canvas'))
+    .catch((error: unknown) => {
+      canvasModule = null;
+      throw error;
+    });
+  return canvasModule;
+}
+
 export default function SkiaChartHost({ data }: { data: LeadChartData }) {
-  // As WithSkiaWeb does: CanvasKit first (the canvas module reads it when it loads), then the canvas.
-  const Canvas = useMemo(
-    () =>
-      lazy(async () => {
-        await LoadSkiaWeb(SKIA_OPTIONS);
-        return import('./lead-chart-canvas');
-      }),
-    [],
-  );
+  const Canvas = useMemo(() => lazy(loadCanvas), []);
   return (
     <Suspense fallback={<ActivityIndicator color={colors.accent} style={styles.loading} accessibilityLabel="Drawing the chart" />}>
       <Canvas data={data} />
