@@ -144,6 +144,7 @@ async function loadExisting(db: Executor, collectionId: string, tags: string[]):
     .where(inFile);
   const measurementRows = await db
     .select({
+      id: measurements.id,
       leadId: measurements.leadId,
       measuredOn: measurements.measuredOn,
       heightMm: measurements.heightMm,
@@ -253,7 +254,8 @@ export async function runImport(db: Database, member: Member, reader: ImportRead
     const { result, existing } = await plan(tx, collectionId, reader, options);
     if (!planIsReady(result)) throw new ImportRefused(checkAnswer(reader, options, result));
 
-    const total = result.plants.length + result.leads.length + result.measurements.length + result.blooms.length + result.bloomFills.length;
+    const total =
+      result.plants.length + result.leads.length + result.measurements.length + result.measurementFills.length + result.blooms.length + result.bloomFills.length;
     hooks.onStart?.(total);
     let done = 0;
     const write = async (table: PgTable, rows: ReadonlyArray<Record<string, unknown>>) => {
@@ -299,6 +301,20 @@ export async function runImport(db: Database, member: Member, reader: ImportRead
       bloomRecords,
       result.blooms.map(({ leadKey, ...b }) => ({ collectionId, leadId: leadId(leadKey), ...b })),
     );
+    for (let i = 0; i < result.measurementFills.length; i += CHUNK_ROWS) {
+      const chunk = result.measurementFills.slice(i, i + CHUNK_ROWS).map((f) => ({ id: f.measurementId, leaf_count: f.leafCount ?? null, root_tips: f.rootTips ?? null }));
+      // Only empty counts are filled: the plan refused any that disagree with a stored value.
+      await tx.execute(sql`
+        update ${measurements} m set
+          leaf_count = coalesce(m.leaf_count, j.leaf_count),
+          root_tips = coalesce(m.root_tips, j.root_tips),
+          version = m.version + 1,
+          updated_at = now()
+        from json_to_recordset(${JSON.stringify(chunk)}::json) as j(id uuid, leaf_count integer, root_tips integer)
+        where m.id = j.id and m.collection_id = ${collectionId}`);
+      done += chunk.length;
+      hooks.onProgress?.(done, total);
+    }
     for (let i = 0; i < result.bloomFills.length; i += CHUNK_ROWS) {
       const chunk = result.bloomFills.slice(i, i + CHUNK_ROWS).map((f) => ({
         lead_id: f.leadId,

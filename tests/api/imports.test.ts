@@ -115,7 +115,7 @@ describe('the fixed spreadsheet', () => {
         blankRows: 2,
         plants: { added: 0, matched: 4 },
         leads: { added: 0, matched: 4 },
-        measurements: { added: 0, already: 8 },
+        measurements: { added: 0, already: 8, filled: 0 },
         blooms: { added: 0, filled: 0, already: 2 },
       },
     });
@@ -141,6 +141,27 @@ describe('the fixed spreadsheet', () => {
     ]);
     expectRefused(await run(w, 'grower', fixture('fixed.csv')), 400, 'rows.2.Height (cm)');
     expect(await counts(w.collectionId)).toMatchObject({ plants: 1, measurements: 1 });
+  });
+
+  it('fills a stored measurement’s empty leaf count and root tips, in place, with its version raised', async () => {
+    const w = await collectionWorld(server);
+    const plant = await insertPlant(testDb(), w.collectionId, { tag: 'FILL-1', genus: 'C.', epithet: 'Stored Grex' });
+    const lead = await insertLead(testDb(), plant, { label: '2024-A', season: 2024, firstSeen: '2024-03-20' });
+    const stored = await insertMeasurement(testDb(), lead, { measuredOn: '2024-03-25', heightMm: 41, leafCount: null, rootTips: null, sheath: 'none' });
+    const csv = 'tag,lead,date,height_mm,leaves,root_tips\nFILL-1,2024-A,2024-03-25,41,3,5\n';
+
+    const checked = await check(w, 'grower', csv);
+    expect(checked.body.issues).toEqual([]);
+    expect(checked.body.counts.measurements).toEqual({ added: 0, already: 0, filled: 1 });
+    const done = await run(w, 'grower', csv);
+    expect(done.lines.at(-1)).toMatchObject({ phase: 'done', counts: { measurements: { added: 0, already: 0, filled: 1 } } });
+    const [row] = await testDb().select().from(measurements).where(eq(measurements.id, stored.id));
+    expect(row).toMatchObject({ heightMm: 41, leafCount: 3, rootTips: 5, sheath: 'none', version: stored.version + 1 });
+    expect(await counts(w.collectionId)).toMatchObject({ measurements: 1 });
+
+    // Sent again, the counts are there: nothing more to fill.
+    const again = await run(w, 'grower', csv);
+    expect(again.lines.at(-1)).toMatchObject({ phase: 'done', counts: { measurements: { added: 0, already: 1, filled: 0 } } });
   });
 });
 

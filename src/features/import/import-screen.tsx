@@ -281,7 +281,8 @@ function ImportFlow({ collectionId }: { collectionId: string }) {
       {done ? (
         <Card title="Imported" testID="import-done">
           <Text role="status">
-            {done.plants.added} plants, {done.leads.added} leads, {done.measurements.added} measurements and {done.blooms.added + done.blooms.filled} bloom records added.
+            {done.plants.added} plants, {done.leads.added} leads, {done.measurements.added} measurements and {done.blooms.added + done.blooms.filled} bloom records added
+            {done.measurements.filled ? `; ${done.measurements.filled} measurements completed` : ''}.
           </Text>
           <Text color="textMuted">
             Already there: {done.plants.matched} plants, {done.leads.matched} leads, {done.measurements.already} measurements. Importing the same file again adds nothing.
@@ -330,6 +331,7 @@ function Summary({ check }: { check: ImportCheck }) {
       </Text>
       <Text>
         New: {c.plants.added} plants, {c.leads.added} leads, {c.measurements.added} measurements, {c.blooms.added} bloom records
+        {c.measurements.filled ? `; ${c.measurements.filled} measurements completed` : ''}
         {c.blooms.filled ? `; ${c.blooms.filled} bloom records completed` : ''}.
       </Text>
       <Text color="textMuted">
@@ -356,7 +358,7 @@ function Preview({ check }: { check: ImportCheck }) {
             {p.sheath ? `, sheath ${p.sheath}` : ''}
             {p.rootTips !== null ? `, ${p.rootTips} root tips` : ''} ·{' '}
             {p.plant === 'new' ? 'new plant' : 'plant on file'}, {p.leadStatus === 'new' ? 'new lead' : 'lead on file'}
-            {p.measurement === 'already' ? ', measurement already there' : ''}
+            {p.measurement === 'already' ? ', measurement already there' : p.measurement === 'filled' ? ', fills in the stored measurement’s empty counts' : ''}
           </Text>
         </View>
       ))}

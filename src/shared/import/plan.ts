@@ -131,6 +131,7 @@ export interface ExistingLead {
   firstSeen: string;
 }
 export interface ExistingMeasurement {
+  id: string;
   leadId: string;
   measuredOn: string;
   heightMm: number;
@@ -205,7 +206,7 @@ export interface PreviewRow {
   sheath: SheathState | null;
   rootTips: number | null;
   /** What happens to the row's measurement: added, already there, or none on this row. */
-  measurement: 'new' | 'already' | 'none';
+  measurement: 'new' | 'already' | 'filled' | 'none';
 }
 
 export interface ImportCounts {
@@ -213,7 +214,8 @@ export interface ImportCounts {
   blankRows: number;
   plants: { added: number; matched: number };
   leads: { added: number; matched: number };
-  measurements: { added: number; already: number };
+  /** `filled`: stored measurements whose empty leaf count or root tips the file supplies. */
+  measurements: { added: number; already: number; filled: number };
   blooms: { added: number; filled: number; already: number };
 }
 
@@ -230,6 +232,8 @@ export interface ImportPlan {
   leads: LeadDraft[];
   measurements: MeasurementDraft[];
   blooms: BloomDraft[];
+  /** Empty leaf counts and root tips of stored measurements to fill, by measurement id. */
+  measurementFills: Array<{ measurementId: string; leafCount?: number; rootTips?: number }>;
   /** Empty fields of stored bloom records to fill, by lead id. */
   bloomFills: Array<{ leadId: string } & Partial<Omit<BloomDraft, 'leadKey'>>>;
 }
@@ -427,7 +431,8 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
   const leadsSeen = new Map<string, LeadSeen>();
   const measurementRows = new Map<string, number>();
   const measurements: MeasurementDraft[] = [];
-  const measurementState = new Map<number, 'new' | 'already' | 'none'>();
+  const measurementState = new Map<number, PreviewRow['measurement']>();
+  const measurementFills: ImportPlan['measurementFills'] = [];
   let already = 0;
 
   const agree = <T extends string | number>(
@@ -510,11 +515,20 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
           same = false;
           issue(v.row, field, `Stored as ${storedText} for lead ${v.lead} of ${v.tag} on ${v.date}; the file says ${fileText}. Correct one of them`);
         };
+        // A count left empty when the measurement was stored is filled in, as bloom records
+        // are; a stored count that disagrees is reported. A sheath is never empty ("none" is
+        // a state the grower saw), so a different one is always reported.
+        const fill: { leafCount?: number; rootTips?: number } = {};
         if (Math.abs(storedM.heightMm - v.heightMm) > SAME_HEIGHT_MM) differ('height_mm', mm(storedM.heightMm), mm(v.heightMm));
-        if (v.leafCount !== null && storedM.leafCount !== v.leafCount) differ('leaves', `${storedM.leafCount ?? 'no'} leaves`, `${v.leafCount}`);
+        if (v.leafCount !== null && storedM.leafCount === null) fill.leafCount = v.leafCount;
+        else if (v.leafCount !== null && storedM.leafCount !== v.leafCount) differ('leaves', `${storedM.leafCount} leaves`, `${v.leafCount}`);
         if (v.sheath !== null && storedM.sheath !== v.sheath) differ('sheath', `sheath ${storedM.sheath}`, v.sheath);
-        if (v.rootTips !== null && storedM.rootTips !== v.rootTips) differ('root_tips', `${storedM.rootTips ?? 'no'} root tips`, `${v.rootTips}`);
-        if (same) {
+        if (v.rootTips !== null && storedM.rootTips === null) fill.rootTips = v.rootTips;
+        else if (v.rootTips !== null && storedM.rootTips !== v.rootTips) differ('root_tips', `${storedM.rootTips} root tips`, `${v.rootTips}`);
+        if (same && Object.keys(fill).length > 0) {
+          measurementFills.push({ measurementId: storedM.id, ...fill });
+          measurementState.set(v.row, 'filled');
+        } else if (same) {
           already += 1;
           measurementState.set(v.row, 'already');
         }
@@ -621,13 +635,14 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
       blankRows: reader.blankRows,
       plants: { added: plants.length, matched: plantsMatched },
       leads: { added: leads.length, matched: leadsMatched },
-      measurements: { added: measurements.length, already },
+      measurements: { added: measurements.length, already, filled: measurementFills.length },
       blooms: { added: blooms.length, filled: bloomFills.length, already: bloomsAlready },
     },
     preview,
     plants,
     leads,
     measurements,
+    measurementFills,
     blooms,
     bloomFills,
   };

@@ -48,7 +48,7 @@ export const previewRowSchema = z.object({
   leafCount: z.number().int().nullable(),
   sheath: z.string().nullable(),
   rootTips: z.number().int().nullable(),
-  measurement: z.enum(['new', 'already', 'none']),
+  measurement: z.enum(['new', 'already', 'filled', 'none']),
 });
 
 export const importCountsSchema = z.object({
@@ -56,7 +56,7 @@ export const importCountsSchema = z.object({
   blankRows: z.number().int(),
   plants: z.object({ added: z.number().int(), matched: z.number().int() }),
   leads: z.object({ added: z.number().int(), matched: z.number().int() }),
-  measurements: z.object({ added: z.number().int(), already: z.number().int() }),
+  measurements: z.object({ added: z.number().int(), already: z.number().int(), filled: z.number().int() }),
   blooms: z.object({ added: z.number().int(), filled: z.number().int(), already: z.number().int() }),
 });
 

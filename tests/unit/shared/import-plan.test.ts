@@ -68,7 +68,7 @@ describe('the fixed spreadsheet', () => {
       blankRows: 2,
       plants: { added: 4, matched: 0 },
       leads: { added: 4, matched: 0 },
-      measurements: { added: 8, already: 0 },
+      measurements: { added: 8, already: 0, filled: 0 },
       blooms: { added: 2, filled: 0, already: 0 },
     });
   });
@@ -100,7 +100,7 @@ describe('against stored records', () => {
   const stored = (height: number, flowers: number | null): ExistingRecords => ({
     plants: [{ id: 'p1', tag: 'A-1', genus: 'C.', epithet: 'Stored Grex', clonalName: null }],
     leads: [{ id: 'l1', plantId: 'p1', label: '2024-A', season: 2024, firstSeen: '2024-04-01' }],
-    measurements: [{ leadId: 'l1', measuredOn: '2024-05-01', heightMm: height, leafCount: 2, sheath: 'none', rootTips: null }],
+    measurements: [{ id: 'm1', leadId: 'l1', measuredOn: '2024-05-01', heightMm: height, leafCount: 2, sheath: 'none', rootTips: null }],
     blooms: [{ leadId: 'l1', budsSeenOn: null, firstOpenOn: '2024-09-01', lastFadedOn: null, flowerCount: flowers, spikeCount: null }],
   });
 
@@ -108,7 +108,8 @@ describe('against stored records', () => {
     const plan = planOf(csv, stored(40.000001, null));
     expect(plan.issues).toEqual([]);
     expect(plan.counts.plants).toEqual({ added: 0, matched: 1 });
-    expect(plan.counts.measurements).toEqual({ added: 1, already: 1 });
+    expect(plan.counts.measurements).toEqual({ added: 1, already: 1, filled: 0 });
+    expect(plan.measurementFills).toEqual([]);
     expect(plan.measurements).toEqual([{ leadKey: 'l1', measuredOn: '2024-05-08', heightMm: 44, leafCount: 2, sheath: 'none', rootTips: null }]);
     expect(plan.bloomFills).toEqual([{ leadId: 'l1', flowerCount: 5 }]);
   });
@@ -119,6 +120,32 @@ describe('against stored records', () => {
       { row: 2, column: 'height_mm', reason: 'Stored as 38 mm for lead 2024-A of A-1 on 2024-05-01; the file says 40 mm. Correct one of them' },
       { row: 2, column: 'flowers', reason: 'The bloom record of lead 2024-A of A-1 has 7; the file says 5. Correct one of them' },
     ]);
+  });
+
+  it('fills a stored measurement’s empty leaf count and root tips, and reports counts that disagree', () => {
+    const existing = (leafCount: number | null, rootTips: number | null): ExistingRecords => ({
+      ...stored(40, null),
+      measurements: [{ id: 'm1', leadId: 'l1', measuredOn: '2024-05-01', heightMm: 40, leafCount, sheath: 'none', rootTips }],
+    });
+    const file = 'tag,lead,date,height_mm,leaves,root_tips\nA-1,2024-A,2024-05-01,40,3,4\n';
+
+    const empty = planOf(file, existing(null, null));
+    expect(empty.issues).toEqual([]);
+    expect(empty.measurementFills).toEqual([{ measurementId: 'm1', leafCount: 3, rootTips: 4 }]);
+    expect(empty.counts.measurements).toEqual({ added: 0, already: 0, filled: 1 });
+    expect(empty.preview[0].measurement).toBe('filled');
+
+    const half = planOf(file, existing(3, null));
+    expect(half.measurementFills).toEqual([{ measurementId: 'm1', rootTips: 4 }]);
+
+    const same = planOf(file, existing(3, 4));
+    expect(same.measurementFills).toEqual([]);
+    expect(same.counts.measurements).toEqual({ added: 0, already: 1, filled: 0 });
+
+    const other = planOf(file, existing(2, null));
+    expect(other.issues).toEqual([{ row: 2, column: 'leaves', reason: 'Stored as 2 leaves for lead 2024-A of A-1 on 2024-05-01; the file says 3. Correct one of them' }]);
+    // A row with a disagreement fills nothing, even where its other count is empty.
+    expect(other.measurementFills).toEqual([]);
   });
 
   it('refuses a measurement before the stored lead was first seen, and a different genus', () => {
