@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm';
 import {
   type AnyPgColumn,
+  bigint,
   boolean,
   check,
   jsonb,
@@ -15,6 +16,7 @@ import {
   timestamp,
   uniqueIndex,
   uuid,
+  varchar,
 } from 'drizzle-orm/pg-core';
 
 export const roleEnum = pgEnum('member_role', ['owner', 'grower', 'viewer']);
@@ -328,6 +330,17 @@ export const photoUploads = pgTable(
   },
   (t) => [primaryKey({ columns: [t.collectionId, t.clientKey] })],
 );
+
+/**
+ * Sign-in and mail budgets shared by every server process (server/middleware/rate-limit.ts).
+ * rate-limiter-flexible reads and writes it with its own queries, so its shape is that
+ * library's: the limiter's key, points used, and when the window ends (epoch ms).
+ */
+export const rateLimitCounts = pgTable('rate_limit_counts', {
+  key: varchar('key', { length: 255 }).primaryKey(),
+  points: integer('points').notNull().default(0),
+  expire: bigint('expire', { mode: 'number' }),
+});
 
 /** An owner's invitation by e-mail; the link's token is stored only as its SHA-256 hash. */
 export const invitations = pgTable(

@@ -6,7 +6,7 @@ import { seedDemo } from '../db/seed';
 import { createApp } from './app';
 import { readEnv } from './env';
 import { mailFromEnv } from './mail/from-env';
-import { createRateLimits, DEFAULT_AUTH_LIMITS, ensureRateLimitTable } from './middleware/rate-limit';
+import { createRateLimits, DEFAULT_AUTH_LIMITS } from './middleware/rate-limit';
 import { photoStoreFromEnv } from './photos/from-env';
 import { DIGEST_CHECK_INTERVAL_MS, startDigestScheduler } from './services/digest';
 import { startColdNightScheduler } from './services/cold-night-alerts';
@@ -20,8 +20,6 @@ async function main() {
 
   await runMigrations(env.DATABASE_URL);
   const database = createDatabase(env.DATABASE_URL);
-  // Sign-in and mail budgets are shared by every server process on this database.
-  await ensureRateLimitTable(database.client);
   if (env.SEED_DEMO) await seedDemo(database.db, { log: (line) => logger.info(line) });
 
   const mail = await mailFromEnv(env, logger);

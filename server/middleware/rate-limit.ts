@@ -1,6 +1,8 @@
 import type { Request, RequestHandler } from 'express';
 import type { Sql } from 'postgres';
 import { RateLimiterAbstract, RateLimiterMemory, RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible';
+import { getTableName } from 'drizzle-orm';
+import { rateLimitCounts } from '../../db/schema';
 import { HttpError } from '../errors';
 
 export interface RateLimitSettings {
@@ -15,17 +17,11 @@ export interface RateLimitSettings {
 export const DEFAULT_AUTH_LIMITS: RateLimitSettings = { perIp: 30, perAccount: 10, windowSeconds: 15 * 60 };
 
 /**
- * The counters' table when they are kept in PostgreSQL. rate-limiter-flexible owns its shape
- * (key, points, expire in epoch ms); it is not part of db/schema.ts, and `ensureRateLimitTable`
- * creates it on start. Every limiter shares it: keys carry the limiter's prefix.
+ * The counters' table when they are kept in PostgreSQL: `rateLimitCounts` in db/schema.ts, made
+ * by a migration in the shape rate-limiter-flexible expects (key, points, expire in epoch ms).
+ * Every limiter shares it: keys carry the limiter's prefix.
  */
-export const RATE_LIMIT_TABLE = 'rate_limit_counts';
-
-export async function ensureRateLimitTable(sql: Sql): Promise<void> {
-  await sql.unsafe(
-    `create table if not exists "${RATE_LIMIT_TABLE}" (key varchar(255) primary key, points integer not null default 0, expire bigint)`,
-  );
-}
+export const RATE_LIMIT_TABLE = getTableName(rateLimitCounts);
 
 /**
  * The driver rate-limiter-flexible expects (`pg`'s `query({ text, values })` → `{ rows }`), on the
