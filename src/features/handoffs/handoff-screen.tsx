@@ -1,28 +1,22 @@
-import { Link, useLocalSearchParams, useRouter } from 'expo-router';
+import { useLocalSearchParams, useRouter } from 'expo-router';
 import { useRef, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
 import { useAcceptHandoffMutation, useHandoffPreviewQuery } from '@/api/queries/handoffs';
-import { useMeQuery, useSignInMutation, useSignOutMutation, useSignUpMutation } from '@/api/queries/session';
+import { useMeQuery, useSignOutMutation } from '@/api/queries/session';
 import { Button } from '@/components/button';
 import { QueryState } from '@/components/query-state';
 import { Segmented } from '@/components/segmented';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
+import { AccountForLink } from '@/features/auth/account-for-link';
 import { AuthFrame } from '@/features/auth/auth-frame';
-import { FormError } from '@/features/auth/form-error';
 import { rememberCollection } from '@/features/collections/current-collection';
 import { formatDate } from '@/lib/dates';
-import { NEW_PASSWORD_HINT, signInInputSchema, signUpInputSchema, type Me } from '@/shared/schemas/auth';
+import type { Me } from '@/shared/schemas/auth';
 import type { AcceptedHandoff, HandoffPreview } from '@/shared/schemas/handoffs';
 import { colors, radius, spacing } from '@/theme';
 import { HandoffContentsList } from './components/handoff-contents';
-
-type Mode = 'sign-up' | 'sign-in';
-const MODES = [
-  { value: 'sign-up', label: 'I am new here' },
-  { value: 'sign-in', label: 'I have an account' },
-] as const;
 
 /**
  * Where a hand-off link lands: shows the division and what history comes with it, lets the
@@ -82,7 +76,15 @@ function HandoffBody({ token, handoff, me }: { token: string; handoff: HandoffPr
         Sent to {handoff.recipientEmail}; the link works once, until {handoff.expiresAt.slice(0, 10)}.
       </Text>
       {!me ? (
-        <SignInPart recipientEmail={handoff.recipientEmail} />
+        <View style={styles.body}>
+          <Text>Sign in, or create an account, with {handoff.recipientEmail} to take the division in.</Text>
+          <AccountForLink
+            email={handoff.recipientEmail}
+            testIDPrefix="handoff"
+            submitLabel={{ signUp: 'Create account', signIn: 'Sign in' }}
+            forgotPasswordText="Forgot password? Reset it, then open the hand-off link again."
+          />
+        </View>
       ) : isRecipient ? (
         <AcceptPart token={token} me={me} />
       ) : (
@@ -93,77 +95,6 @@ function HandoffBody({ token, handoff, me }: { token: string; handoff: HandoffPr
           <Button label="Sign out and use the other account" tone="secondary" loading={signOut.isPending} onPress={() => signOut.mutate()} testID="handoff-switch" />
         </View>
       )}
-    </View>
-  );
-}
-
-function SignInPart({ recipientEmail }: { recipientEmail: string }) {
-  const signUp = useSignUpMutation();
-  const signIn = useSignInMutation();
-  const [mode, setMode] = useState<Mode>('sign-up');
-  const [email, setEmail] = useState(recipientEmail);
-  const [displayName, setDisplayName] = useState('');
-  const [password, setPassword] = useState('');
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [formError, setFormError] = useState<string>();
-  const [busy, setBusy] = useState(false);
-
-  const submit = async () => {
-    setFormError(undefined);
-    const schema = mode === 'sign-up' ? signUpInputSchema : signInInputSchema;
-    const parsed = schema.safeParse(mode === 'sign-up' ? { email, password, displayName } : { email, password });
-    if (!parsed.success) {
-      setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
-      return;
-    }
-    setErrors({});
-    setBusy(true);
-    try {
-      if (mode === 'sign-up') await signUp.mutateAsync(parsed.data as never);
-      else await signIn.mutateAsync(parsed.data);
-    } catch (error) {
-      if (error instanceof ApiError && error.details.length > 0) setErrors(Object.fromEntries(error.details.map((d) => [d.field, d.reason])));
-      else setFormError(error instanceof ApiError ? error.message : 'Something went wrong; try again.');
-    } finally {
-      setBusy(false);
-    }
-  };
-
-  return (
-    <View style={styles.body}>
-      <Text>Sign in, or create an account, with {recipientEmail} to take the division in.</Text>
-      <FormError message={formError} />
-      <Segmented label="Do you have a Sympodia account?" value={mode} options={MODES} onChange={setMode} testID="handoff-mode" />
-      {mode === 'sign-up' ? (
-        <TextField label="Your name" testID="handoff-name" autoComplete="name" value={displayName} onChangeText={setDisplayName} error={errors.displayName} />
-      ) : null}
-      <TextField
-        label="E-mail"
-        testID="handoff-account-email"
-        autoComplete="email"
-        inputMode="email"
-        autoCapitalize="none"
-        value={email}
-        onChangeText={setEmail}
-        error={errors.email}
-      />
-      <TextField
-        label={mode === 'sign-up' ? 'Choose a password' : 'Password'}
-        testID="handoff-password"
-        autoComplete={mode === 'sign-up' ? 'new-password' : 'current-password'}
-        secureTextEntry
-        value={password}
-        onChangeText={setPassword}
-        error={errors.password}
-        hint={mode === 'sign-up' ? NEW_PASSWORD_HINT : undefined}
-        onSubmitEditing={submit}
-      />
-      <Button label={mode === 'sign-up' ? 'Create account' : 'Sign in'} testID="handoff-submit" loading={busy} onPress={submit} />
-      {mode === 'sign-in' ? (
-        <Link href="/forgot-password">
-          <Text color="accent">Forgot password? Reset it, then open the hand-off link again.</Text>
-        </Link>
-      ) : null}
     </View>
   );
 }

@@ -1,27 +1,19 @@
-import { Link, useLocalSearchParams, useRouter } from 'expo-router';
-import { useRef, useState } from 'react';
+import { useLocalSearchParams, useRouter } from 'expo-router';
+import { useRef } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
 import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '@/api/queries/mail';
-import { useMeQuery, useSignInMutation, useSignUpMutation } from '@/api/queries/session';
+import { useMeQuery } from '@/api/queries/session';
 import { Button } from '@/components/button';
 import { QueryState } from '@/components/query-state';
-import { Segmented } from '@/components/segmented';
 import { Text } from '@/components/text';
-import { TextField } from '@/components/text-field';
+import { AccountForLink } from '@/features/auth/account-for-link';
 import { AuthFrame } from '@/features/auth/auth-frame';
 import { FormError } from '@/features/auth/form-error';
 import { rememberCollection } from '@/features/collections/current-collection';
 import { ROLE_LABELS } from '@/lib/format';
-import { NEW_PASSWORD_HINT, signInInputSchema, signUpInputSchema } from '@/shared/schemas/auth';
 import type { InvitationPreview } from '@/shared/schemas/mail';
 import { spacing } from '@/theme';
-
-type Mode = 'sign-up' | 'sign-in';
-const MODES = [
-  { value: 'sign-up', label: 'I am new here' },
-  { value: 'sign-in', label: 'I have an account' },
-] as const;
 
 /**
  * Where an invitation link lands: shows the collection and role, lets the person sign up or
@@ -69,51 +61,13 @@ export function InviteScreen() {
 function InviteBody({ token, invitation, signedInAs }: { token: string; invitation: InvitationPreview; signedInAs: { email: string; displayName: string } | null }) {
   const router = useRouter();
   const accept = useAcceptInvitationMutation(token);
-  const signUp = useSignUpMutation();
-  const signIn = useSignInMutation();
-  const [mode, setMode] = useState<Mode>('sign-up');
-  const [email, setEmail] = useState(invitation.email);
-  const [displayName, setDisplayName] = useState('');
-  const [password, setPassword] = useState('');
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [formError, setFormError] = useState<string>();
-  const [busy, setBusy] = useState(false);
 
   const finish = async () => {
     const accepted = await accept.mutateAsync();
     rememberCollection(accepted.collectionId);
     router.replace('/collection');
   };
-
-  const run = async (action: () => Promise<void>) => {
-    setFormError(undefined);
-    setBusy(true);
-    try {
-      await action();
-    } catch (error) {
-      if (error instanceof ApiError && error.details.length > 0) {
-        setErrors(Object.fromEntries(error.details.map((d) => [d.field, d.reason])));
-      } else {
-        setFormError(error instanceof ApiError ? error.message : 'Something went wrong; try again.');
-      }
-    } finally {
-      setBusy(false);
-    }
-  };
-
-  const submit = () =>
-    run(async () => {
-      const schema = mode === 'sign-up' ? signUpInputSchema : signInInputSchema;
-      const parsed = schema.safeParse(mode === 'sign-up' ? { email, password, displayName } : { email, password });
-      if (!parsed.success) {
-        setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
-        return;
-      }
-      setErrors({});
-      if (mode === 'sign-up') await signUp.mutateAsync(parsed.data as never);
-      else await signIn.mutateAsync(parsed.data);
-      await finish();
-    });
+  const acceptError = accept.error ? (accept.error instanceof ApiError ? accept.error.message : 'Something went wrong; try again.') : undefined;
 
   return (
     <View style={styles.body} testID="invite-screen">
@@ -127,49 +81,22 @@ function InviteBody({ token, invitation, signedInAs }: { token: string; invitati
       <Text variant="caption" color="textMuted">
         Sent to {invitation.email}; the link works once, until {invitation.expiresAt.slice(0, 10)}.
       </Text>
-      <FormError message={formError} />
       {signedInAs ? (
         <>
+          <FormError message={acceptError} />
           <Text>
             You are signed in as {signedInAs.displayName} ({signedInAs.email}).
           </Text>
-          <Button label="Accept and open the collection" testID="invite-accept" loading={busy} onPress={() => run(finish)} />
+          <Button label="Accept and open the collection" testID="invite-accept" loading={accept.isPending} onPress={() => finish().catch(() => {})} />
         </>
       ) : (
-        <>
-          <Segmented label="Do you have a Sympodia account?" value={mode} options={MODES} onChange={setMode} testID="invite-mode" />
-          {mode === 'sign-up' ? (
-            <TextField label="Your name" testID="invite-name" autoComplete="name" value={displayName} onChangeText={setDisplayName} error={errors.displayName} />
-          ) : null}
-          <TextField
-            label="E-mail"
-            testID="invite-account-email"
-            autoComplete="email"
-            inputMode="email"
-            autoCapitalize="none"
-            value={email}
-            onChangeText={setEmail}
-            error={errors.email}
-          />
-          <TextField
-            label={mode === 'sign-up' ? 'Choose a password' : 'Password'}
-            testID="invite-password"
-            autoComplete={mode === 'sign-up' ? 'new-password' : 'current-password'}
-            secureTextEntry
-            value={password}
-            onChangeText={setPassword}
-            error={errors.password}
-            hint={mode === 'sign-up' ? NEW_PASSWORD_HINT : undefined}
-            onSubmitEditing={submit}
-          />
-          <Button label={mode === 'sign-up' ? 'Create account and join' : 'Sign in and join'} testID="invite-submit" loading={busy} onPress={submit} />
-          {mode === 'sign-in' ? (
-            // The invitation mail stays valid meanwhile: its link brings the person back here.
-            <Link href="/forgot-password" testID="invite-forgot-password">
-              <Text color="accent">Forgot password? Reset it, then open the invitation link again.</Text>
-            </Link>
-          ) : null}
-        </>
+        <AccountForLink
+          email={invitation.email}
+          testIDPrefix="invite"
+          submitLabel={{ signUp: 'Create account and join', signIn: 'Sign in and join' }}
+          forgotPasswordText="Forgot password? Reset it, then open the invitation link again."
+          onSignedIn={finish}
+        />
       )}
     </View>
   );
