@@ -3,6 +3,7 @@ import { API_BASE_URL } from '@/lib/env';
 import { errorBodySchema } from '@/shared/schemas/errors';
 import { type RestoreResult, restoreResultSchema } from '@/shared/schemas/export';
 import { ApiError } from '../client';
+import { uploadForm } from '../upload';
 import { collectionKeys } from './collections';
 import { sessionKeys } from './session';
 
@@ -77,35 +78,14 @@ export interface RestoreProgress {
   total: number;
 }
 
-/** Sends the export file as an upload (XMLHttpRequest reports upload progress; fetch does not). */
+/** Sends the export file as an upload, with its progress. */
 export function sendRestore(collectionId: string, file: Blob & { name?: string }, onProgress: (progress: RestoreProgress) => void): Promise<RestoreResult> {
-  return new Promise((resolve, reject) => {
-    const form = new FormData();
-    form.append('document', file, file.name ?? 'export.json');
-    const xhr = new XMLHttpRequest();
-    xhr.open('POST', `${API_BASE_URL}/api/collections/${collectionId}/restore`);
-    xhr.withCredentials = true;
-    xhr.upload.onprogress = (event) => onProgress({ sent: event.loaded, total: event.lengthComputable ? event.total : file.size });
-    xhr.onerror = () => reject(new ApiError(0, 'offline', 'The connection dropped while sending the file; nothing was restored'));
-    xhr.onload = () => {
-      let body: unknown = null;
-      try {
-        body = JSON.parse(xhr.responseText);
-      } catch {
-        body = null;
-      }
-      if (xhr.status === 201) {
-        const result = restoreResultSchema.safeParse(body);
-        return result.success ? resolve(result.data) : reject(new ApiError(xhr.status, 'unexpected', 'The server’s answer could not be read'));
-      }
-      const refused = errorBodySchema.safeParse(body);
-      if (refused.success) {
-        const { code, message, details } = refused.data.error;
-        return reject(new ApiError(xhr.status, code, message, details));
-      }
-      reject(new ApiError(xhr.status, 'unexpected', `The server answered ${xhr.status}`));
-    };
-    xhr.send(form);
+  const form = new FormData();
+  form.append('document', file, file.name ?? 'export.json');
+  return uploadForm(`/collections/${collectionId}/restore`, form, {
+    schema: restoreResultSchema,
+    onProgress: ({ loaded, total }) => onProgress({ sent: loaded, total: total || file.size }),
+    droppedMessage: 'The connection dropped while sending the file; nothing was restored',
   });
 }
 

@@ -1,6 +1,5 @@
 import { ApiError, request } from '@/api/client';
-import { API_BASE_URL } from '@/lib/env';
-import { errorBodySchema } from '@/shared/schemas/errors';
+import { uploadForm } from '@/api/upload';
 import { type Photo, type PhotoUploadCancel, photoSchema, photoUploadCancelSchema } from '@/shared/schemas/photos';
 
 export interface Progress {
@@ -41,10 +40,9 @@ export interface PhotoTarget {
 }
 
 /**
- * One multipart POST through XMLHttpRequest, which (unlike fetch) reports upload progress.
- * Only the file travels, with what it shows and the upload's key; the server reads the
- * picture itself. Every attempt carries the same key, so a resend is stored once and a
- * cancel (`cancelUpload`) reaches the upload wherever it is.
+ * One multipart POST of a photo. Only the file travels, with what it shows and the upload's
+ * key; the server reads the picture itself. Every attempt carries the same key, so a resend
+ * is stored once and a cancel (`cancelUpload`) reaches the upload wherever it is.
  */
 export function xhrSend(
   collectionId: string,
@@ -52,45 +50,21 @@ export function xhrSend(
   target: PhotoTarget,
   { clientKey, takenOn }: { clientKey: string; takenOn?: string },
 ): SendOnce {
-  return (onProgress, signal) =>
-    new Promise<Photo>((resolve, reject) => {
-      const form = new FormData();
-      for (const [name, value] of Object.entries(target)) if (value) form.append(name, value);
-      if (takenOn) form.append('takenOn', takenOn);
-      form.append('clientKey', clientKey);
-      form.append('photo', file, file.name ?? 'photo');
-
-      const xhr = new XMLHttpRequest();
-      xhr.open('POST', `${API_BASE_URL}/api/collections/${collectionId}/photos`);
-      xhr.withCredentials = true;
-      xhr.upload.onprogress = (event) => onProgress({ loaded: event.loaded, total: event.lengthComputable ? event.total : file.size });
-      xhr.onerror = () => reject(new ApiError(0, 'offline', 'The connection dropped while sending the photo'));
-      xhr.onabort = () => reject(Object.assign(new Error('Upload cancelled'), { name: 'AbortError' }));
-      xhr.onload = () => {
-        let body: unknown = null;
-        try {
-          body = JSON.parse(xhr.responseText);
-        } catch {
-          body = null;
-        }
-        // 200: a resend of an upload the server already stored under this key.
-        if (xhr.status === 201 || xhr.status === 200) {
-          const photo = photoSchema.safeParse(body);
-          if (photo.success) return resolve(photo.data);
-          return reject(new ApiError(xhr.status, 'unexpected', 'The server’s answer could not be read'));
-        }
-        const refusal = errorBodySchema.safeParse(body);
-        if (refusal.success) {
-          const { code, message, details } = refusal.data.error;
-          // A field's reason says more than the general message ("The file is larger than 20 MB").
-          return reject(new ApiError(xhr.status, code, details?.[0]?.reason ?? message, details));
-        }
-        reject(new ApiError(xhr.status, 'unexpected', `The server answered ${xhr.status}`));
-      };
-      if (signal.aborted) return xhr.onabort?.(new ProgressEvent('abort'));
-      signal.addEventListener('abort', () => xhr.abort(), { once: true });
-      xhr.send(form);
+  return (onProgress, signal) => {
+    const form = new FormData();
+    for (const [name, value] of Object.entries(target)) if (value) form.append(name, value);
+    if (takenOn) form.append('takenOn', takenOn);
+    form.append('clientKey', clientKey);
+    form.append('photo', file, file.name ?? 'photo');
+    // 201 stored now; 200 a resend of an upload the server already stored under this key.
+    return uploadForm(`/collections/${collectionId}/photos`, form, {
+      schema: photoSchema,
+      signal,
+      onProgress: ({ loaded, total }) => onProgress({ loaded, total: total || file.size }),
+      droppedMessage: 'The connection dropped while sending the photo',
+      fieldReasonFirst: true,
     });
+  };
 }
 
 /**
