@@ -35,6 +35,7 @@ try {
       wasmBytes: requests.filter((r) => r.url.endsWith('.wasm')).reduce((total, r) => total + (r.transferSize ?? 0), 0),
       lcpElement: lcpElement ? `${lcpElement.selector ?? ''} ${lcpElement.snippet ?? ''}`.slice(0, 160) : null,
       runtimeError: lhr.runtimeError?.message ?? null,
+      runtimeErrorCode: lhr.runtimeError?.code ?? null,
     }),
   );
 } finally {
