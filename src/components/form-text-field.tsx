@@ -5,8 +5,14 @@ import { TextField, type TextFieldProps } from './text-field';
 export function FormTextField<T extends FieldValues>({
   control,
   name,
+  emptyAs = 'null',
   ...props
-}: { control: Control<T>; name: Path<T> } & Omit<TextFieldProps, 'value' | 'onChangeText' | 'error'>) {
+}: {
+  control: Control<T>;
+  name: Path<T>;
+  /** What an emptied field holds: null (an optional record field) or '' (a required text the schema names as missing). */
+  emptyAs?: 'null' | 'text';
+} & Omit<TextFieldProps, 'value' | 'onChangeText' | 'error'>) {
   return (
     <Controller
       control={control}
@@ -15,7 +21,7 @@ export function FormTextField<T extends FieldValues>({
         <TextField
           {...props}
           value={field.value ?? ''}
-          onChangeText={(text) => field.onChange(text === '' ? null : text)}
+          onChangeText={(text) => field.onChange(text === '' && emptyAs === 'null' ? null : text)}
           onBlur={field.onBlur}
           error={fieldState.error?.message}
         />

@@ -1,13 +1,13 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useRouter } from 'expo-router';
 import { useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { z } from 'zod';
 import { useSignInMutation } from '@/api/queries/session';
 import { Button } from '@/components/button';
 import { Text } from '@/components/text';
-import { TextField } from '@/components/text-field';
+import { FormTextField } from '@/components/form-text-field';
 import { signInInputSchema } from '@/shared/schemas/auth';
 import { spacing } from '@/theme';
 import { AuthFrame } from './auth-frame';
@@ -38,40 +38,26 @@ export function SignInScreen() {
   return (
     <AuthFrame title="Sign in">
       <FormError message={formError} />
-      <Controller
+      <FormTextField
         control={control}
         name="email"
-        render={({ field, fieldState }) => (
-          <TextField
-            label="E-mail"
-            testID="sign-in-email"
-            autoComplete="email"
-            inputMode="email"
-            autoCapitalize="none"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            onSubmitEditing={submit}
-          />
-        )}
+        emptyAs="text"
+        label="E-mail"
+        testID="sign-in-email"
+        autoComplete="email"
+        inputMode="email"
+        autoCapitalize="none"
+        onSubmitEditing={submit}
       />
-      <Controller
+      <FormTextField
         control={control}
         name="password"
-        render={({ field, fieldState }) => (
-          <TextField
-            label="Password"
-            testID="sign-in-password"
-            autoComplete="current-password"
-            secureTextEntry
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            onSubmitEditing={submit}
-          />
-        )}
+        emptyAs="text"
+        label="Password"
+        testID="sign-in-password"
+        autoComplete="current-password"
+        secureTextEntry
+        onSubmitEditing={submit}
       />
       <Button label="Sign in" testID="sign-in-submit" onPress={submit} loading={formState.isSubmitting} />
       <Link href="/forgot-password" testID="to-forgot-password">

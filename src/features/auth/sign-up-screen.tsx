@@ -1,13 +1,13 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useRouter } from 'expo-router';
 import { useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { z } from 'zod';
 import { useSignUpMutation } from '@/api/queries/session';
 import { Button } from '@/components/button';
 import { Text } from '@/components/text';
-import { TextField } from '@/components/text-field';
+import { FormTextField } from '@/components/form-text-field';
 import { NEW_PASSWORD_HINT, signUpInputSchema } from '@/shared/schemas/auth';
 import { spacing } from '@/theme';
 import { AuthFrame } from './auth-frame';
@@ -39,55 +39,34 @@ export function SignUpScreen() {
     <AuthFrame title="Create an account">
       <Text color="textMuted">Your first collection is made for you; you can invite others to it later.</Text>
       <FormError message={formError} />
-      <Controller
+      <FormTextField
         control={control}
         name="displayName"
-        render={({ field, fieldState }) => (
-          <TextField
-            label="Your name"
-            testID="sign-up-name"
-            autoComplete="name"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-          />
-        )}
+        emptyAs="text"
+        label="Your name"
+        testID="sign-up-name"
+        autoComplete="name"
       />
-      <Controller
+      <FormTextField
         control={control}
         name="email"
-        render={({ field, fieldState }) => (
-          <TextField
-            label="E-mail"
-            testID="sign-up-email"
-            autoComplete="email"
-            inputMode="email"
-            autoCapitalize="none"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-          />
-        )}
+        emptyAs="text"
+        label="E-mail"
+        testID="sign-up-email"
+        autoComplete="email"
+        inputMode="email"
+        autoCapitalize="none"
       />
-      <Controller
+      <FormTextField
         control={control}
         name="password"
-        render={({ field, fieldState }) => (
-          <TextField
-            label="Password"
-            testID="sign-up-password"
-            autoComplete="new-password"
-            secureTextEntry
-            hint={NEW_PASSWORD_HINT}
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            onSubmitEditing={submit}
-          />
-        )}
+        emptyAs="text"
+        label="Password"
+        testID="sign-up-password"
+        autoComplete="new-password"
+        secureTextEntry
+        hint={NEW_PASSWORD_HINT}
+        onSubmitEditing={submit}
       />
       <Button label="Create account" testID="sign-up-submit" onPress={submit} loading={formState.isSubmitting} />
       <View style={styles.footer}>
