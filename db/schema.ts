@@ -328,7 +328,11 @@ export const photoUploads = pgTable(
     cancelledAt: timestamp('cancelled_at', { withTimezone: true, mode: 'date' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [primaryKey({ columns: [t.collectionId, t.clientKey] })],
+  (t) => [
+    primaryKey({ columns: [t.collectionId, t.clientKey] }),
+    // Deleting a photo clears its key's photo_id: found by this index, not a scan.
+    index('photo_uploads_photo_idx').on(t.photoId),
+  ],
 );
 
 /**

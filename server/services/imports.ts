@@ -133,7 +133,7 @@ async function loadExisting(db: Executor, collectionId: string, tags: string[]):
   const tagList = JSON.stringify(tags);
   const inFile = sql`${plants.collectionId} = ${collectionId} and ${plants.tag} in (select jsonb_array_elements_text(${tagList}::jsonb))`;
   const plantRows = await db
-    .select({ id: plants.id, tag: plants.tag, genus: plants.genus, epithet: plants.epithet, clonalName: plants.clonalName })
+    .select({ id: plants.id, tag: plants.tag, genus: plants.genus, epithet: plants.epithet, clonalName: plants.clonalName, historyOnly: plants.historyOnly })
     .from(plants)
     .where(inFile);
   if (plantRows.length === 0) return { plants: [], leads: [], measurements: [], blooms: [] };
@@ -311,7 +311,8 @@ export async function runImport(db: Database, member: Member, reader: ImportRead
           version = m.version + 1,
           updated_at = now()
         from json_to_recordset(${JSON.stringify(chunk)}::json) as j(id uuid, leaf_count integer, root_tips integer)
-        where m.id = j.id and m.collection_id = ${collectionId}`);
+        where m.id = j.id and m.collection_id = ${collectionId}
+          and ((m.leaf_count is null and j.leaf_count is not null) or (m.root_tips is null and j.root_tips is not null))`);
       done += chunk.length;
       hooks.onProgress?.(done, total);
     }

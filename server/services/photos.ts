@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import { and, asc, eq, sql } from 'drizzle-orm';
+import { and, asc, eq, lt, sql } from 'drizzle-orm';
 import type { Role } from '@/shared/schemas/auth';
 import type { Photo, PhotoSize, PhotoUploadCancel, PhotoUploadFields } from '@/shared/schemas/photos';
 import type { Database } from '../../db/client';
@@ -17,6 +17,18 @@ type PhotoRow = typeof photos.$inferSelect;
 const WEBP = 'image/webp';
 
 export const photoKey = (storageKey: string, size: PhotoSize) => `${storageKey}/${size}.webp`;
+/** Both files of a photo in the store. */
+export const photoFileKeys = (storageKey: string) => [photoKey(storageKey, 'display'), photoKey(storageKey, 'thumb')];
+
+/**
+ * How long an upload key is kept. A resend follows its first attempt within seconds and a
+ * cancel within the upload's own minutes, so older keys are cleared as new ones come in.
+ */
+export const UPLOAD_KEY_DAYS = 2;
+
+const keyRefusal = (code: string, message: string, reason: string) => new HttpError(409, code, message, [{ field: 'clientKey', reason }]);
+/** Keys are their sender's: the same answer for a resend and for a cancel under another person's key. */
+const someoneElsesKey = () => keyRefusal('client_key_reused', 'That upload key was already used by someone else; send a fresh key', 'already used');
 
 export function toPhoto(row: PhotoRow): Photo {
   const base = `/api/collections/${row.collectionId}/photos/${row.id}`;
@@ -73,18 +85,18 @@ class UploadKeyTaken extends Error {}
  * key is new.
  */
 export async function earlierUpload(db: Database, member: Member, clientKey: string): Promise<Photo | null> {
+  // The key's row and its photo in one read, so a photo deleted meanwhile is not a 404.
   const [upload] = await db
-    .select()
+    .select({ userId: photoUploads.userId, cancelledAt: photoUploads.cancelledAt, photo: photos })
     .from(photoUploads)
+    .leftJoin(photos, eq(photos.id, photoUploads.photoId))
     .where(and(eq(photoUploads.collectionId, member.collectionId), eq(photoUploads.clientKey, clientKey)))
     .limit(1);
   if (!upload) return null;
-  const refuse = (code: string, message: string, reason: string) =>
-    new HttpError(409, code, message, [{ field: 'clientKey', reason }]);
-  if (upload.userId !== member.userId) throw refuse('client_key_reused', 'That upload key was already used; send a fresh key', 'already used');
-  if (upload.cancelledAt) throw refuse('upload_cancelled', 'This upload was cancelled; choose the photo again to send it', 'cancelled');
-  if (!upload.photoId) throw refuse('upload_photo_deleted', 'This upload was stored and its photo has since been deleted', 'photo deleted');
-  return toPhoto(await requirePhoto(db, member.collectionId, upload.photoId));
+  if (upload.userId !== member.userId) throw someoneElsesKey();
+  if (upload.cancelledAt) throw keyRefusal('upload_cancelled', 'This upload was cancelled; choose the photo again to send it', 'cancelled');
+  if (!upload.photo) throw keyRefusal('upload_photo_deleted', 'This upload was stored and its photo has since been deleted', 'photo deleted');
+  return toPhoto(upload.photo);
 }
 
 /**
@@ -108,7 +120,7 @@ export async function addPhoto(
   await assertWritablePlant(db, collectionId, target.plantId);
   const id = randomUUID();
   const storageKey = `${collectionId}/${id}`;
-  const keys = [photoKey(storageKey, 'display'), photoKey(storageKey, 'thumb')];
+  const keys = photoFileKeys(storageKey);
   try {
     await store.put(keys[0], processed.display.data, WEBP);
     await store.put(keys[1], processed.thumb.data, WEBP);
@@ -133,6 +145,9 @@ export async function addPhoto(
         })
         .returning();
       if (fields.clientKey) {
+        await tx
+          .delete(photoUploads)
+          .where(and(eq(photoUploads.collectionId, collectionId), lt(photoUploads.createdAt, sql`now() - make_interval(days => ${UPLOAD_KEY_DAYS})`)));
         // Waits for a cancel or resend holding the same key, then finds its row taken.
         const claimed = await tx
           .insert(photoUploads)
@@ -156,28 +171,39 @@ export async function addPhoto(
 
 /**
  * Cancels the upload sent under `clientKey`, whether or not it has reached the server. The
- * key's row is taken first, so an upload still on its way is refused when it arrives, and
- * one already stored is removed with its files.
+ * key's row is taken, so an upload still on its way is refused when it arrives, and one
+ * already stored is removed with its files.
+ *
+ * A photo already stored is locked before the key's row: deleting a photo (or its lead or
+ * plant) takes the photo row first and then, through the foreign key, the key's row, and the
+ * same order here keeps the two from deadlocking.
  */
 export async function cancelUpload(db: Database, store: PhotoStore, member: Member, clientKey: string): Promise<PhotoUploadCancel> {
   const removed = await db.transaction(async (tx) => {
+    const stored = await tx
+      .select({ id: photos.id })
+      .from(photos)
+      .innerJoin(photoUploads, eq(photoUploads.photoId, photos.id))
+      .where(and(eq(photoUploads.collectionId, member.collectionId), eq(photoUploads.clientKey, clientKey)))
+      .for('update', { of: photos });
     const [upload] = await tx
       .insert(photoUploads)
-      .values({ collectionId: member.collectionId, clientKey, userId: member.userId, cancelledAt: new Date() })
+      .values({ collectionId: member.collectionId, clientKey, userId: member.userId, cancelledAt: sql`now()` })
       .onConflictDoUpdate({
         target: [photoUploads.collectionId, photoUploads.clientKey],
         set: { cancelledAt: sql`coalesce(${photoUploads.cancelledAt}, now())` },
         setWhere: eq(photoUploads.userId, member.userId),
       })
       .returning({ photoId: photoUploads.photoId });
-    if (!upload) {
-      throw new HttpError(409, 'client_key_reused', 'That upload key belongs to someone else’s upload', [{ field: 'clientKey', reason: 'not yours' }]);
-    }
+    if (!upload) throw someoneElsesKey();
     if (!upload.photoId) return null;
+    // Not locked above only when the upload committed while this waited for the key's row.
+    if (!stored.some((p) => p.id === upload.photoId)) await tx.select({ id: photos.id }).from(photos).where(eq(photos.id, upload.photoId)).for('update');
     const [photo] = await tx.delete(photos).where(eq(photos.id, upload.photoId)).returning({ storageKey: photos.storageKey });
     return photo ?? null;
   });
-  if (removed) await store.delete([photoKey(removed.storageKey, 'display'), photoKey(removed.storageKey, 'thumb')]);
+  // The row is gone and the cancel has happened; files a failing store keeps are only unreachable leftovers.
+  if (removed) await store.delete(photoFileKeys(removed.storageKey)).catch(() => {});
   return { removed: Boolean(removed) };
 }
 
@@ -223,7 +249,7 @@ export async function deletePhoto(db: Database, store: PhotoStore, member: Membe
     throw new HttpError(403, 'forbidden', 'Only the owner or the person who added this photo can delete it');
   }
   await db.delete(photos).where(eq(photos.id, row.id));
-  await store.delete([photoKey(row.storageKey, 'display'), photoKey(row.storageKey, 'thumb')]);
+  await store.delete(photoFileKeys(row.storageKey));
 }
 
 /**
@@ -247,6 +273,6 @@ export async function withPhotoFilesRemoved<T>(
       ),
     );
   const result = await remove();
-  await store.delete(rows.flatMap((r) => [photoKey(r.storageKey, 'display'), photoKey(r.storageKey, 'thumb')]));
+  await store.delete(rows.flatMap((r) => photoFileKeys(r.storageKey)));
   return result;
 }

@@ -27,13 +27,15 @@ export interface UploadOptions<S extends z.ZodType> {
  */
 export function uploadForm<S extends z.ZodType>(path: string, form: FormData, options: UploadOptions<S>): Promise<z.infer<S>> {
   const { schema, onProgress, signal, droppedMessage, fieldReasonFirst = false } = options;
+  const cancelled = () => Object.assign(new Error('Upload cancelled'), { name: 'AbortError' });
   return new Promise((resolve, reject) => {
+    if (signal?.aborted) return reject(cancelled());
     const xhr = new XMLHttpRequest();
     xhr.open('POST', `${API_BASE_URL}/api${path}`);
     xhr.withCredentials = true;
     if (onProgress) xhr.upload.onprogress = (event) => onProgress({ loaded: event.loaded, total: event.lengthComputable ? event.total : 0 });
     xhr.onerror = () => reject(new ApiError(0, 'offline', droppedMessage));
-    xhr.onabort = () => reject(Object.assign(new Error('Upload cancelled'), { name: 'AbortError' }));
+    xhr.onabort = () => reject(cancelled());
     xhr.onload = () => {
       let body: unknown = null;
       try {
@@ -53,7 +55,6 @@ export function uploadForm<S extends z.ZodType>(path: string, form: FormData, op
       }
       reject(new ApiError(xhr.status, 'unexpected', `The server answered ${xhr.status}`));
     };
-    if (signal?.aborted) return xhr.onabort?.(new ProgressEvent('abort'));
     signal?.addEventListener('abort', () => xhr.abort(), { once: true });
     xhr.send(form);
   });

@@ -143,6 +143,23 @@ describe('the fixed spreadsheet', () => {
     expect(await counts(w.collectionId)).toMatchObject({ plants: 1, measurements: 1 });
   });
 
+  it('refuses rows for a read-only history copy: nothing filled, nothing added', async () => {
+    const w = await collectionWorld(server);
+    const plant = await insertPlant(testDb(), w.collectionId, { tag: 'HIST-1', genus: 'C.', epithet: 'Stored Grex', historyOnly: true });
+    const lead = await insertLead(testDb(), plant, { label: '2024-A', season: 2024, firstSeen: '2024-03-20' });
+    const stored = await insertMeasurement(testDb(), lead, { measuredOn: '2024-03-25', heightMm: 41, leafCount: null, sheath: 'none' });
+    const csv = 'tag,lead,date,height_mm,leaves\nHIST-1,2024-A,2024-03-25,41,3\nHIST-1,2024-A,2024-04-10,50,3\n';
+    const checked = await check(w, 'grower', csv);
+    expect(checked.body.issues.map((i: { row: number; column: string }) => [i.row, i.column])).toEqual([
+      [2, 'tag'],
+      [3, 'tag'],
+    ]);
+    expectRefused(await run(w, 'grower', csv), 400, 'rows.2.tag');
+    const [row] = await testDb().select().from(measurements).where(eq(measurements.id, stored.id));
+    expect(row).toMatchObject({ leafCount: null, version: stored.version });
+    expect(await counts(w.collectionId)).toMatchObject({ measurements: 1 });
+  });
+
   it('fills a stored measurement’s empty leaf count and root tips, in place, with its version raised', async () => {
     const w = await collectionWorld(server);
     const plant = await insertPlant(testDb(), w.collectionId, { tag: 'FILL-1', genus: 'C.', epithet: 'Stored Grex' });

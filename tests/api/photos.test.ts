@@ -364,6 +364,44 @@ describe('sending under a client key', () => {
     expect(await rowsOf(lead.id)).toEqual([]);
   });
 
+  it('two attempts under one key at the same moment store one photo, and both are answered with it', async () => {
+    const { w, lead } = await photoWorld();
+    const clientKey = randomUUID();
+    const file = await jpeg();
+    const answers = await Promise.all([upload(w, 'grower', { leadId: lead.id, clientKey }, file), upload(w, 'grower', { leadId: lead.id, clientKey }, file)]);
+    expect(answers.map((a) => a.status).sort()).toEqual([200, 201]);
+    expect(answers[0].body.id).toBe(answers[1].body.id);
+    expect(await rowsOf(lead.id)).toHaveLength(1);
+    // The attempt that lost the key removed its own files: only the stored photo's two remain.
+    expect((await filesUnder(photoDir)).filter((f) => f.includes(`${w.collectionId}`))).toHaveLength(2);
+  });
+
+  it('a resend after the photo was deleted is refused by name, and a cancel then finds nothing to remove', async () => {
+    const { w, lead } = await photoWorld();
+    const clientKey = randomUUID();
+    const stored = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+    expect((await w.grower.delete(w.at(`/photos/${stored.body.id}`))).status).toBe(204);
+    const again = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+    expectRefused(again, 409);
+    expect(again.body.error).toMatchObject({ code: 'upload_photo_deleted', details: [{ field: 'clientKey', reason: 'photo deleted' }] });
+    expect((await w.grower.delete(w.at(`/photo-uploads/${clientKey}`))).body).toEqual({ removed: false });
+    expect(await rowsOf(lead.id)).toEqual([]);
+  });
+
+  it('a cancel and a delete of the same stored photo at once both answer, without a deadlock', async () => {
+    const { w, lead } = await photoWorld();
+    for (let i = 0; i < 6; i += 1) {
+      const clientKey = randomUUID();
+      const stored = await upload(w, 'grower', { leadId: lead.id, clientKey }, await jpeg());
+      const [cancelled, deleted] = await Promise.all([w.grower.delete(w.at(`/photo-uploads/${clientKey}`)), w.owner.delete(w.at(`/photos/${stored.body.id}`))]);
+      expect(cancelled.status, JSON.stringify(cancelled.body)).toBe(200);
+      // The delete finds the photo, or finds it already gone with the cancel.
+      expect([204, 404], JSON.stringify(deleted.body)).toContain(deleted.status);
+      expect(cancelled.body.removed || deleted.status === 204).toBe(true);
+    }
+    expect(await rowsOf(lead.id)).toEqual([]);
+  });
+
   it('a key is its sender’s: no one else can cancel or reuse it; a viewer cannot cancel; a bad key is named', async () => {
     const { w, lead } = await photoWorld();
     const clientKey = randomUUID();

@@ -26,10 +26,10 @@ export interface AccountForLinkProps {
   /** Under the sign-in form: what to do after resetting the password. */
   forgotPasswordText: string;
   /**
-   * Runs once the person is signed in (accepting what the link offers). Its refusal is shown
-   * as the form's, and the person stays signed in to try again.
+   * Called once the person is signed in. The screen then shows its signed-in state (this
+   * form goes away), so whatever the link offers is accepted, and refused, there.
    */
-  onSignedIn?: () => Promise<void>;
+  onSignedIn?: () => void;
 }
 
 /**
@@ -60,7 +60,7 @@ export function AccountForLink({ email: sentTo, testIDPrefix, submitLabel, forgo
     try {
       if (mode === 'sign-up') await signUp.mutateAsync(parsed.data as never);
       else await signIn.mutateAsync(parsed.data);
-      await onSignedIn?.();
+      onSignedIn?.();
     } catch (error) {
       if (error instanceof ApiError && error.details.length > 0) setErrors(Object.fromEntries(error.details.map((d) => [d.field, d.reason])));
       else setFormError(error instanceof ApiError ? error.message : 'Something went wrong; try again.');

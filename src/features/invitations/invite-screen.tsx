@@ -1,5 +1,5 @@
 import { useLocalSearchParams, useRouter } from 'expo-router';
-import { useRef } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '@/api/client';
 import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '@/api/queries/mail';
@@ -61,12 +61,20 @@ export function InviteScreen() {
 function InviteBody({ token, invitation, signedInAs }: { token: string; invitation: InvitationPreview; signedInAs: { email: string; displayName: string } | null }) {
   const router = useRouter();
   const accept = useAcceptInvitationMutation(token);
+  // Signing up or in here means joining: once signed in, the invitation is accepted at once.
+  const [joinOnSignIn, setJoinOnSignIn] = useState(false);
 
   const finish = async () => {
     const accepted = await accept.mutateAsync();
     rememberCollection(accepted.collectionId);
     router.replace('/collection');
   };
+  useEffect(() => {
+    if (!joinOnSignIn || !signedInAs) return;
+    setJoinOnSignIn(false);
+    finish().catch(() => {});
+    // Keyed on the sign-in itself, not on `finish`, which is a new function every render.
+  }, [joinOnSignIn, signedInAs]);
   const acceptError = accept.error ? (accept.error instanceof ApiError ? accept.error.message : 'Something went wrong; try again.') : undefined;
 
   return (
@@ -95,7 +103,7 @@ function InviteBody({ token, invitation, signedInAs }: { token: string; invitati
           testIDPrefix="invite"
           submitLabel={{ signUp: 'Create account and join', signIn: 'Sign in and join' }}
           forgotPasswordText="Forgot password? Reset it, then open the invitation link again."
-          onSignedIn={finish}
+          onSignedIn={() => setJoinOnSignIn(true)}
         />
       )}
     </View>

@@ -122,6 +122,8 @@ export interface ExistingPlant {
   genus: string;
   epithet: string;
   clonalName: string | null;
+  /** A read-only copy of another grower's record, brought in with a division: it takes no records. */
+  historyOnly: boolean;
 }
 export interface ExistingLead {
   id: string;
@@ -455,6 +457,10 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
       plantsSeen.set(v.tag, plant);
     }
     const stored = plant.stored;
+    if (stored?.historyOnly) {
+      issue(v.row, 'tag', `Plant ${v.tag} is a read-only copy of another grower's record, brought in with a division; records cannot be added to it`);
+      continue;
+    }
     const checkStored = (field: ImportField, value: string | null, storedValue: string | null | undefined, what: string) => {
       if (stored && value !== null && storedValue !== value) {
         issue(v.row, field, `Plant ${v.tag} is stored with ${storedValue ? `${storedValue} as the ${what}` : `no ${what}`}; the file says ${value}`);
@@ -604,7 +610,8 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
     const plant = plantsSeen.get(v.tag)!;
     const storedPlant = plant.stored;
     const leadKey = storedPlant && storedLeads.get(`${storedPlant.id}\u0000${v.lead}`);
-    const lead = leadsSeen.get(leadKey ? leadKey.id : leadKeyOf(v.tag, v.lead))!;
+    // Undefined for a row refused before its lead was read (a read-only plant).
+    const lead = leadsSeen.get(leadKey ? leadKey.id : leadKeyOf(v.tag, v.lead));
     const genus = storedPlant?.genus ?? plant.genus?.value ?? '';
     const epithet = storedPlant?.epithet ?? plant.epithet?.value ?? '';
     const clonal = storedPlant?.clonalName ?? plant.clonalName?.value;
@@ -614,8 +621,8 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
       plant: storedPlant ? 'matched' : 'new',
       name: `${genus} ${epithet}${clonal ? ` '${clonal}'` : ''}`.trim(),
       lead: v.lead,
-      leadStatus: lead.stored ? 'matched' : 'new',
-      season: lead.stored?.season ?? newSeason.get(lead.key) ?? null,
+      leadStatus: lead?.stored ? 'matched' : 'new',
+      season: lead?.stored?.season ?? (lead ? newSeason.get(lead.key) : undefined) ?? null,
       date: v.date,
       heightMm: v.heightMm,
       leafCount: v.leafCount,

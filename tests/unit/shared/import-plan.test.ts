@@ -98,7 +98,7 @@ describe('the fixed spreadsheet', () => {
 describe('against stored records', () => {
   const csv = 'tag,lead,date,height_mm,leaves,sheath,first_open,flowers\nA-1,2024-A,2024-05-01,40,2,none,2024-09-01,5\nA-1,2024-A,2024-05-08,44,2,none,,\n';
   const stored = (height: number, flowers: number | null): ExistingRecords => ({
-    plants: [{ id: 'p1', tag: 'A-1', genus: 'C.', epithet: 'Stored Grex', clonalName: null }],
+    plants: [{ id: 'p1', tag: 'A-1', genus: 'C.', epithet: 'Stored Grex', clonalName: null, historyOnly: false }],
     leads: [{ id: 'l1', plantId: 'p1', label: '2024-A', season: 2024, firstSeen: '2024-04-01' }],
     measurements: [{ id: 'm1', leadId: 'l1', measuredOn: '2024-05-01', heightMm: height, leafCount: 2, sheath: 'none', rootTips: null }],
     blooms: [{ leadId: 'l1', budsSeenOn: null, firstOpenOn: '2024-09-01', lastFadedOn: null, flowerCount: flowers, spikeCount: null }],
@@ -146,6 +146,21 @@ describe('against stored records', () => {
     expect(other.issues).toEqual([{ row: 2, column: 'leaves', reason: 'Stored as 2 leaves for lead 2024-A of A-1 on 2024-05-01; the file says 3. Correct one of them' }]);
     // A row with a disagreement fills nothing, even where its other count is empty.
     expect(other.measurementFills).toEqual([]);
+  });
+
+  it('refuses every row for a read-only history copy, filling and adding nothing', () => {
+    const existing: ExistingRecords = { ...stored(40, null), plants: [{ id: 'p1', tag: 'A-1', genus: 'C.', epithet: 'Stored Grex', clonalName: null, historyOnly: true }] };
+    const plan = planOf(csv, existing);
+    expect(plan.issues.map((i) => [i.row, i.column])).toEqual([
+      [2, 'tag'],
+      [3, 'tag'],
+    ]);
+    expect(plan.issues[0].reason).toContain('read-only copy');
+    expect(planIsReady(plan)).toBe(false);
+    expect(plan.measurements).toEqual([]);
+    expect(plan.measurementFills).toEqual([]);
+    expect(plan.bloomFills).toEqual([]);
+    expect(plan.preview[0]).toMatchObject({ tag: 'A-1', plant: 'matched' });
   });
 
   it('refuses a measurement before the stored lead was first seen, and a different genus', () => {

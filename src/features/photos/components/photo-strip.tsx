@@ -85,10 +85,14 @@ export function PhotoStrip({ collectionId, subject, canWrite, canDelete, attachO
     try {
       await cancelUpload(collectionId, upload.clientKey);
       update(upload.id, { state: 'cancelled' });
-    } catch {
+    } catch (error) {
+      // A refusal says why; no answer at all leaves the photo's fate unknown.
+      const refused = error instanceof ApiError && error.status > 0;
       update(upload.id, {
         state: 'failed',
-        error: 'Stopped sending, but the server could not be told. If the photo shows up here, delete it.',
+        error: refused
+          ? `Stopped sending, but the server refused the cancel: ${error.message}. If the photo shows up here, delete it.`
+          : 'Stopped sending, but the server could not be told. If the photo shows up here, delete it.',
       });
     } finally {
       await client.invalidateQueries({ queryKey: photoKeys.all(collectionId) });

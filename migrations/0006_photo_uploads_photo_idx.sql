@@ -1,0 +1,1 @@
+CREATE INDEX "photo_uploads_photo_idx" ON "photo_uploads" USING btree ("photo_id");
