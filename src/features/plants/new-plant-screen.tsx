@@ -83,6 +83,8 @@ export function NewPlantScreen() {
         <View style={styles.form}>
           <FormError message={formError} />
           <FormTextField control={control} name="tag" label="Tag" hint="The label on the pot, e.g. SH-014" testID="plant-tag" autoCapitalize="characters" />
+          {/* Quick picks sit under the field they fill in, so each label names its field first. */}
+          <FormTextField control={control} name="genus" label="Genus (abbreviation)" hint="C., Rlc., Den., Stan., B., L. …" testID="plant-genus" autoCapitalize="words" />
           <Controller
             control={control}
             name="genus"
@@ -94,7 +96,6 @@ export function NewPlantScreen() {
               </View>
             )}
           />
-          <FormTextField control={control} name="genus" label="Genus (abbreviation)" hint="C., Rlc., Den., Stan., B., L. …" testID="plant-genus" autoCapitalize="words" />
           <FormTextField control={control} name="epithet" label="Grex or species" testID="plant-epithet" />
           <Controller
             control={control}
@@ -123,7 +124,6 @@ export function NewPlantScreen() {
             )}
           />
           <FormTextField control={control} name="medium" label="Medium" testID="plant-medium" />
-          {/* Quick picks under the field they fill in, so the label names the field first. */}
           <Controller
             control={control}
             name="medium"
