@@ -1,4 +1,4 @@
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import type { RequestHandler } from 'express';
 import { z } from 'zod';
 import type { Role } from '@/shared/schemas/auth';
@@ -25,25 +25,14 @@ export const requireUser: RequestHandler = (_req, res, next) => {
 /** What a collection id in a path must be (anything else is a 404). */
 export const collectionIdSchema = z.uuid();
 
-/** One membership row, as a prepared query (built once, not per request). */
-const membershipLookups = new WeakMap<Database, ReturnType<typeof prepareMembershipLookup>>();
-
-function prepareMembershipLookup(db: Database) {
-  return db
+/** The user's membership of a collection, or null. */
+async function membershipOf(db: Database, collectionId: string, userId: string) {
+  const [row] = await db
     .select({ collectionId: memberships.collectionId, userId: memberships.userId, role: memberships.role })
     .from(memberships)
-    .where(and(eq(memberships.collectionId, sql.placeholder('collectionId')), eq(memberships.userId, sql.placeholder('userId'))))
-    .limit(1)
-    .prepare('membership_of_user');
-}
-
-function membershipLookup(db: Database) {
-  let lookup = membershipLookups.get(db);
-  if (!lookup) {
-    lookup = prepareMembershipLookup(db);
-    membershipLookups.set(db, lookup);
-  }
-  return lookup;
+    .where(and(eq(memberships.collectionId, collectionId), eq(memberships.userId, userId)))
+    .limit(1);
+  return row ?? null;
 }
 
 /**
@@ -52,7 +41,6 @@ function membershipLookup(db: Database) {
  * a member below `minimum` → 403.
  */
 export function requireRole(db: Database, minimum: Role): RequestHandler {
-  const lookup = membershipLookup(db);
   return async (req, res, next) => {
     const user = res.locals.user;
     if (!user) return next(new HttpError(401, 'signed_out', 'Sign in to continue'));
@@ -63,7 +51,7 @@ export function requireRole(db: Database, minimum: Role): RequestHandler {
     const membership =
       prefetched && prefetched.collectionId === parsed.data
         ? prefetched.membership
-        : ((await lookup.execute({ collectionId: parsed.data, userId: user.id }))[0] ?? null);
+        : await membershipOf(db, parsed.data, user.id);
     if (!membership) return next(notFound('That collection'));
     if (RANK[membership.role] < RANK[minimum]) {
       return next(new HttpError(403, 'forbidden', `This needs the ${minimum} role in this collection`));

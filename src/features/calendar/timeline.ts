@@ -1,3 +1,4 @@
+import { formatDate } from '@/lib/dates';
 import { MONTH_ABBREVIATIONS } from '@/lib/format';
 import { colors } from '@/theme';
 
@@ -70,7 +71,7 @@ export function monthLabel(date: string, withYear: boolean): string {
 /** "6 Dec", or "6 Dec 2027" when the year differs from the reference year. */
 export function shortDate(date: string, referenceYear: number): string {
   const [y, m, d] = date.split('-').map(Number);
-  return y === referenceYear ? `${d} ${MONTH_ABBREVIATIONS[m - 1]}` : `${d} ${MONTH_ABBREVIATIONS[m - 1]} ${y}`;
+  return y === referenceYear ? `${d} ${MONTH_ABBREVIATIONS[m - 1]}` : formatDate(date);
 }
 
 export type ChanceBand = 'likely' | 'possible' | 'unlikely';

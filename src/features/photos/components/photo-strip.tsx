@@ -18,6 +18,9 @@ import { PhotoViewer } from './photo-viewer';
 
 const THUMB_HEIGHT = 96;
 
+/** What follows an upload's name once it is no longer sending (a failure shows its reason below). */
+const STATE_NOTES = { cancelling: ' · cancelling…', cancelled: ' · cancelled', failed: '' } as const;
+
 interface Upload {
   id: number;
   name: string;
@@ -168,7 +171,7 @@ export function PhotoStrip({ collectionId, subject, canWrite, canDelete, attachO
           <View key={u.id} style={styles.upload} testID="photo-upload">
             <Text variant="caption">
               {u.name} · {formatBytes(u.progress.total)}
-              {u.state === 'sending' ? ` · ${percent}%` : u.state === 'cancelling' ? ' · cancelling…' : u.state === 'cancelled' ? ' · cancelled' : ''}
+              {u.state === 'sending' ? ` · ${percent}%` : STATE_NOTES[u.state]}
             </Text>
             {u.state === 'sending' ? (
               <View
