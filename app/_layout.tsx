@@ -4,7 +4,7 @@ import { QueryClientProvider } from '@tanstack/react-query';
 import { FontDisplay, useFonts } from 'expo-font';
 import { Slot } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 import { createQueryClient } from '@/api/query-client';
 import { fontFaces } from '@/theme';
@@ -26,6 +26,10 @@ export default function RootLayout() {
   const [queryClient] = useState(createQueryClient);
   // Starts loading the fonts; rendering does not wait for them.
   useFonts(FONT_FILES);
+  // The page drawn on the server is now the browser's own: its controls respond.
+  useEffect(() => {
+    document.documentElement.dataset.ready = 'true';
+  }, []);
   return (
     <SafeAreaProvider>
       <QueryClientProvider client={queryClient}>

@@ -1,11 +1,13 @@
 import type { Page } from '@playwright/test';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../db/seed/demo-accounts';
 import { signInAs } from './support/session';
 import { expect, test } from './support/fixtures';
 
-// What the page does for a slow phone before the first screen draws: scripts come
-// precompressed, the route's chunks are named up front, and the session rides in the page.
+// What the page does for a slow phone before the first screen draws: the server draws the
+// screen from the session and the screen's first answers, the page carries both, and the
+// scripts (precompressed) take the drawn page over instead of asking again.
 
-/** Every request the page makes from now on, by URL, and the hrefs it preloads as `as`. */
+/** Every request the page makes from now on, by URL. */
 function watchRequests(page: Page) {
   const urls: string[] = [];
   const unused: string[] = [];
@@ -17,9 +19,11 @@ function watchRequests(page: Page) {
   return {
     urls,
     unused,
+    /** The API paths asked for (without /api). */
+    api: () => urls.map((url) => new URL(url).pathname).filter((p) => p.startsWith('/api/')).map((p) => p.slice('/api'.length)),
     preloads: (as: string) =>
       page.locator(`link[rel="preload"][as="${as}"]`).evaluateAll((links) => links.map((l) => (l as HTMLLinkElement).href)),
-    /** Preloaded URLs not asked for exactly once: a preload the page's own request did not match (or never made). */
+    /** Preloaded URLs not asked for exactly once. */
     async unmatchedPreloads() {
       const hrefs = await page.locator('link[rel="preload"]').evaluateAll((links) => links.map((l) => (l as HTMLLinkElement).href));
       return hrefs.filter((href) => urls.filter((url) => url === href).length !== 1);
@@ -27,34 +31,43 @@ function watchRequests(page: Page) {
   };
 }
 
-test('a signed-in reload draws Today without asking who is signed in, from Brotli-compressed scripts', async ({ page }) => {
+test('Today comes drawn by the server: readable before any script runs', async ({ browser, baseURL }) => {
+  const context = await browser.newContext({ javaScriptEnabled: false, baseURL });
+  const page = await context.newPage();
+  const grower = DEMO_ACCOUNTS.find((a) => a.role === 'grower')!;
+  const signIn = await page.request.post('/api/auth/sign-in', {
+    data: { email: grower.email, password: DEMO_PASSWORD },
+    headers: { Origin: new URL(baseURL!).origin },
+  });
+  expect(signIn.ok()).toBe(true);
+  await page.goto('/');
+  await expect(page.getByTestId('attention-list')).toBeVisible();
+  await expect(page.getByTestId('attention-aborted')).toContainText('Stalled or aborted');
+  await expect(page).toHaveTitle('Sympodia');
+  await context.close();
+});
+
+test('a signed-in reload of Today asks for nothing the page carries, and its scripts come Brotli-compressed', async ({ page }) => {
   await signInAs(page, 'grower');
   const requests = watchRequests(page);
-  const sessionRequests: string[] = [];
   const scripts: Array<{ url: string; encoding: string | undefined }> = [];
-  page.on('request', (request) => {
-    if (new URL(request.url()).pathname === '/api/session') sessionRequests.push(request.url());
-  });
   page.on('response', async (response) => {
     if (response.request().resourceType() === 'script') scripts.push({ url: response.url(), encoding: (await response.allHeaders())['content-encoding'] });
   });
   await page.reload();
   await expect(page.getByTestId('attention-list')).toBeVisible();
-  expect(sessionRequests).toEqual([]);
-  // The page named Today's screen chunk before any script ran.
-  const preloads = await page.locator('link[rel="preload"][as="script"]').evaluateAll((links) => links.map((l) => (l as HTMLLinkElement).href));
-  expect(preloads.length).toBeGreaterThanOrEqual(3);
+  await page.waitForLoadState('networkidle');
+  // The scripts took the drawn page over: its buttons work.
+  await page.getByTestId('cold-night-tonight-more').click();
+  await expect(page.getByTestId('cold-night-tonight-more')).toHaveText('Show fewer');
   expect(scripts.length).toBeGreaterThanOrEqual(3);
   // Files under 1 KiB are sent as they are; every other script as its Brotli copy.
   for (const script of scripts) expect([undefined, 'br'], script.url).toContain(script.encoding);
   const bundles = scripts.filter((s) => /\/(entry|__common)-[0-9a-f]+\.js$/.test(s.url));
   expect(bundles).toHaveLength(2);
   for (const bundle of bundles) expect(bundle.encoding, bundle.url).toBe('br');
-  for (const href of preloads) expect(scripts.map((s) => s.url)).toContain(href);
-  // Today's first API requests left with the page, and the screen took their answers.
-  await page.waitForLoadState('networkidle');
-  const fetches = await requests.preloads('fetch');
-  expect(fetches.map((href) => new URL(href).pathname.split('/').at(-1))).toEqual(['attention', 'cold-nights']);
+  // Neither who is signed in nor Today's attention list and cold nights were asked again.
+  expect(requests.api().filter((p) => p === '/session' || p.endsWith('/attention') || p.endsWith('/cold-nights'))).toEqual([]);
   // The three faces of Source Sans 3, each fetched once: the preload is the font the page uses.
   expect(await requests.preloads('font')).toHaveLength(3);
   expect(await requests.unmatchedPreloads()).toEqual([]);
@@ -73,7 +86,7 @@ test('a signed-out visit to Today goes straight to sign-in', async ({ page }) =>
   expect(sessionRequests).toEqual([]);
 });
 
-test('a lead page fetches each chunk and record once: the preloads are the requests the page makes', async ({ page }) => {
+test('a lead page fetches each chunk once and asks for none of the records the page carries', async ({ page }) => {
   await signInAs(page, 'grower');
   await page.locator('[data-testid^="attention-item-"]').first().click();
   await expect(page.getByTestId('lead-screen')).toBeVisible();
@@ -81,8 +94,13 @@ test('a lead page fetches each chunk and record once: the preloads are the reque
   await page.reload();
   await expect(page.getByTestId('lead-screen')).toBeVisible();
   await page.waitForLoadState('networkidle');
-  expect(requests.urls.some((url) => url.includes('/[leadId]-') || url.includes('/%5BleadId%5D-'))).toBe(true);
+  const chunks = requests.urls.filter((url) => url.includes('/[leadId]-') || url.includes('/%5BleadId%5D-'));
+  expect(chunks).toHaveLength(1);
   expect(requests.urls.filter((url) => url.includes('%5B'))).toEqual([]);
-  expect(await requests.preloads('fetch')).toHaveLength(3);
+  const leadId = new URL(page.url()).pathname.split('/').at(-1)!;
+  // The collection, the lead and its forecast came with the page.
+  expect(requests.api().filter((p) => /^\/collections\/[^/]+$/.test(p) || p.endsWith(`/leads/${leadId}`) || p.endsWith(`/leads/${leadId}/forecast`))).toEqual([]);
   expect(await requests.unmatchedPreloads()).toEqual([]);
+  // The chart still draws once the page is the browser's own.
+  await expect(page.getByTestId('lead-chart').locator('canvas')).toBeVisible();
 });

@@ -62,8 +62,8 @@ const TARGETS = { score: 90, lcpMs: 2500, firstScreenJsKb: 400 };
 async function main() {
   // Debian's Chromium, installed as the test command installs it when a machine has none.
   execFileSync('bash', ['-c', `source "${path.join(ROOT, 'scripts/lib.sh')}" && ensure_chromium`], { stdio: 'inherit' });
-  if (!fs.existsSync(path.join(WEB_ROOT, 'route-chunks.json'))) {
-    throw new Error(`${WEB_ROOT} is not a finished build (no route-chunks.json): run npm run build:web first`);
+  if (!fs.existsSync(path.join(WEB_ROOT, 'server', '_expo', 'server', 'render.js'))) {
+    throw new Error(`${WEB_ROOT} is not a finished build (no server/_expo/server/render.js): run npm run build:web first`);
   }
   execFileSync('bash', [path.join(ROOT, 'scripts/db.sh'), 'start', 'test'], { stdio: 'inherit' });
   const admin = postgres(ADMIN_URL, { max: 1, onnotice: () => {} });

@@ -1,7 +1,7 @@
-// After `expo export --source-maps`: writes the route → chunk manifest the server uses to
-// preload a page's chunks, removes the source maps (unless KEEP_SOURCE_MAPS=1), and
-// precompresses the static files (Brotli at its best setting and gzip) so the server sends
-// them without compressing on every request.
+// After `expo export --source-maps` (Expo Router's server output: client/ and server/): removes
+// the browser's source maps (unless KEEP_SOURCE_MAPS=1) and precompresses the static files
+// (Brotli at its best setting and gzip) so the server sends them without compressing on every
+// request.
 //
 //   node scripts/web/postbuild.mjs [dist]
 import fs from 'node:fs';
@@ -9,34 +9,19 @@ import path from 'node:path';
 import { promisify } from 'node:util';
 import zlib from 'node:zlib';
 
-const root = path.resolve(process.argv[2] ?? 'dist');
+const root = path.resolve(process.argv[2] ?? 'dist', 'client');
 const chunkDir = path.join(root, '_expo', 'static', 'js', 'web');
 if (!fs.existsSync(chunkDir)) throw new Error(`No exported web build in ${root}`);
-
-// 1. Which chunk holds which route file: read from each chunk's source map. A route file
-//    (app/…) is the module an async route chunk is built around.
-const manifest = {};
-for (const name of fs.readdirSync(chunkDir).filter((f) => f.endsWith('.js.map'))) {
-  const { sources = [] } = JSON.parse(fs.readFileSync(path.join(chunkDir, name), 'utf8'));
-  for (const source of sources) {
-    const match = /(?:^|\/)app\/(.+\.(?:tsx|ts|jsx|js))$/.exec(source.replace(/\\/g, '/'));
-    if (!match || source.includes('node_modules')) continue;
-    const chunk = `/_expo/static/js/web/${name.replace(/\.map$/, '')}`;
-    if (/^(entry|__common|__expo-metro-runtime)-/.test(name)) continue; // loaded by index.html already
-    manifest[match[1]] = chunk;
-  }
+if (!fs.existsSync(path.join(root, '..', 'server', '_expo', 'server', 'render.js'))) {
+  throw new Error(`${path.dirname(root)} has no server render module: app.json must ask for web.output "server"`);
 }
-if (Object.keys(manifest).length === 0) {
-  throw new Error('No route chunks found in the source maps: was the build exported with --source-maps?');
-}
-fs.writeFileSync(path.join(root, 'route-chunks.json'), `${JSON.stringify(manifest, null, 2)}\n`);
 
-// 2. Source maps are for looking at a build, not for serving.
+// 1. Source maps are for looking at a build, not for serving.
 if (process.env.KEEP_SOURCE_MAPS !== '1') {
   for (const name of fs.readdirSync(chunkDir).filter((f) => f.endsWith('.map'))) fs.rmSync(path.join(chunkDir, name));
 }
 
-// 3. Precompress. index.html is left out: the server writes a page's preloads into it.
+// 2. Precompress. Pages are drawn per request, so there is no HTML here to compress.
 const COMPRESSIBLE = /\.(js|css|json|wasm|svg|ico|ttf|otf|txt)$/;
 const brotli = promisify(zlib.brotliCompress);
 const gzip = promisify(zlib.gzip);
@@ -70,5 +55,5 @@ await Promise.all(
   }),
 );
 console.log(
-  `[build] ${Object.keys(manifest).length} route chunks in route-chunks.json; ${files.length} files precompressed (${(raw / 1024).toFixed(0)} KiB → ${(packed / 1024).toFixed(0)} KiB Brotli)`,
+  `[build] ${files.length} files precompressed (${(raw / 1024).toFixed(0)} KiB → ${(packed / 1024).toFixed(0)} KiB Brotli)`,
 );

@@ -1,4 +1,5 @@
 import { ActivityIndicator, Pressable, StyleSheet, View, type PressableProps } from 'react-native';
+import { useInBrowser } from '@/lib/use-in-browser';
 import { colors, radius, spacing, TOUCH_TARGET } from '@/theme';
 import { Text } from './text';
 
@@ -20,13 +21,16 @@ const TONES: Record<Tone, { background: string; pressed: string; text: 'onAccent
 export function Button({ label, tone = 'primary', loading = false, disabled, style, ...rest }: ButtonProps) {
   const look = TONES[tone];
   const inactive = disabled || loading;
+  // A press before the page's scripts have taken it over would do nothing: until then the
+  // button says it is not ready (and keeps its look, to avoid a flash).
+  const ready = useInBrowser();
   return (
     <Pressable
       accessibilityRole="button"
       accessibilityLabel={label}
       {...rest}
-      accessibilityState={{ disabled: !!inactive, busy: loading }}
-      disabled={inactive}
+      accessibilityState={{ disabled: !!inactive || !ready, busy: loading }}
+      disabled={inactive || !ready}
       style={(state) => [
         styles.base,
         { backgroundColor: state.pressed ? look.pressed : look.background, borderColor: look.border },

@@ -1,13 +1,18 @@
 import { Pressable, StyleSheet } from 'react-native';
+import { useInBrowser } from '@/lib/use-in-browser';
 import { colors, radius, spacing } from '@/theme';
 import { Text } from './text';
 
 /** A toggle for filters and quick choices; read as a pressed/unpressed button. */
 export function Chip({ label, selected, onPress, testID }: { label: string; selected: boolean; onPress: () => void; testID?: string }) {
+  // Not ready until the page's scripts have taken it over (a press before would do nothing).
+  const ready = useInBrowser();
   return (
     <Pressable
       role="button"
       aria-pressed={selected}
+      disabled={!ready}
+      aria-disabled={!ready || undefined}
       onPress={onPress}
       testID={testID}
       style={StyleSheet.flatten([styles.chip, selected && styles.selected])}

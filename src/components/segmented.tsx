@@ -1,4 +1,5 @@
 import { Pressable, StyleSheet, View } from 'react-native';
+import { useInBrowser } from '@/lib/use-in-browser';
 import { colors, radius, spacing, TOUCH_TARGET } from '@/theme';
 import { Text } from './text';
 
@@ -13,6 +14,8 @@ export interface SegmentedProps<T extends string> {
 
 /** A small set of exclusive choices shown side by side, read by screen readers as radios. */
 export function Segmented<T extends string>({ label, value, options, onChange, disabled, testID }: SegmentedProps<T>) {
+  // Not ready until the page's scripts have taken it over (a press before would do nothing).
+  const ready = useInBrowser();
   return (
     <View role="radiogroup" aria-label={label} style={styles.row} testID={testID}>
       {options.map((option) => {
@@ -22,8 +25,8 @@ export function Segmented<T extends string>({ label, value, options, onChange, d
             key={option.value}
             role="radio"
             aria-checked={selected}
-            aria-disabled={disabled}
-            disabled={disabled}
+            aria-disabled={disabled || !ready}
+            disabled={disabled || !ready}
             onPress={() => onChange(option.value)}
             testID={testID ? `${testID}-${option.value}` : undefined}
             style={[styles.option, selected && styles.selected, disabled && styles.disabled]}

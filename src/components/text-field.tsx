@@ -1,5 +1,6 @@
 import { forwardRef, useId, useState } from 'react';
 import { StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
+import { useInBrowser } from '@/lib/use-in-browser';
 import { colors, fonts, radius, spacing, TOUCH_TARGET } from '@/theme';
 import { Text } from './text';
 
@@ -11,9 +12,11 @@ export interface TextFieldProps extends TextInputProps {
 
 /** A labelled input whose error is announced and tied to the field for screen readers. */
 export const TextField = forwardRef<TextInput, TextFieldProps>(function TextField(
-  { label, error, hint, style, onFocus, onBlur, ...rest },
+  { label, error, hint, style, onFocus, onBlur, editable, ...rest },
   ref,
 ) {
+  // Typing into the server's page before its scripts take it over would be lost: read-only until then.
+  const ready = useInBrowser();
   const id = useId();
   const [focused, setFocused] = useState(false);
   const describedBy = error ? `${id}-error` : hint ? `${id}-hint` : undefined;
@@ -37,6 +40,7 @@ export const TextField = forwardRef<TextInput, TextFieldProps>(function TextFiel
           onBlur?.(event);
         }}
         style={[styles.input, focused && styles.focused, error ? styles.invalid : null, style]}
+        editable={editable !== false && ready}
         {...rest}
       />
       {error ? (

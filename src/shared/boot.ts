@@ -1,8 +1,12 @@
 /**
- * The app's page carries `{ me }` (the answer of GET /api/session) in a JSON script element
- * with this id, so the first screen knows who is signed in without a request of its own.
+ * The app's page carries what it was drawn from (who is signed in, the collection, the first
+ * screen's API answers: `PageData`) in a JSON script element with this id, so the browser's
+ * first draw matches the server's and asks for nothing the page already holds.
  */
-export const BOOT_ELEMENT_ID = 'sympodia-session';
+export const BOOT_ELEMENT_ID = 'sympodia-page';
+
+/** The global the page server puts the same data in for the one server render in progress. */
+export const PAGE_DATA_GLOBAL = '__sympodiaPageData';
 
 /**
  * The collection this browser works in, kept in a cookie as well as in local storage, so

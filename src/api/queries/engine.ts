@@ -8,6 +8,7 @@ import {
   plantTrendSchema,
 } from '@/shared/schemas/engine';
 import { request } from '../client';
+import { responseFromPage } from '../page-data';
 import { recordKeys } from './records';
 
 /** Forecasts live under the records key, so any record write refreshes them too. */
@@ -44,6 +45,7 @@ export function useLeadForecastQuery(collectionId: string, leadId: string) {
   return useQuery({
     queryKey: engineKeys.forecast(collectionId, leadId),
     queryFn: () => request(`${base(collectionId)}/leads/${leadId}/forecast`, { schema: leadForecastSchema }),
+    initialData: () => responseFromPage(`${base(collectionId)}/leads/${leadId}/forecast`, leadForecastSchema),
   });
 }
 
@@ -58,6 +60,7 @@ export function useAttentionQuery(collectionId: string, date?: string) {
   return useQuery({
     queryKey: engineKeys.attention(collectionId, date),
     queryFn: () => request(`${base(collectionId)}/attention${query({ date })}`, { schema: attentionListSchema }),
+    initialData: () => responseFromPage(`${base(collectionId)}/attention${query({ date })}`, attentionListSchema),
     enabled: !!collectionId,
   });
 }

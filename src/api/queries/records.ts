@@ -17,6 +17,7 @@ import {
   type PlantInput,
 } from '@/shared/schemas/records';
 import { request } from '../client';
+import { responseFromPage } from '../page-data';
 
 export interface PlantFilters {
   q?: string;
@@ -73,6 +74,7 @@ export function useLeadQuery(collectionId: string, leadId: string | null | undef
   return useQuery({
     queryKey: recordKeys.lead(collectionId, leadId ?? 'none'),
     queryFn: () => request(`${base(collectionId)}/leads/${leadId}`, { schema: leadDetailSchema }),
+    initialData: () => responseFromPage(`${base(collectionId)}/leads/${leadId}`, leadDetailSchema),
     enabled: !!leadId,
   });
 }

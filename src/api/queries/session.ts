@@ -1,7 +1,7 @@
 import { QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { meSchema, sessionSchema, type Me, type SignInInput, type SignUpInput } from '@/shared/schemas/auth';
-import { BOOT_ELEMENT_ID } from '@/shared/boot';
 import { request } from '../client';
+import { meFromPage } from '../page-data';
 
 export const sessionKeys = { me: ['me'] as const };
 
@@ -14,29 +14,12 @@ function switchPerson(client: QueryClient, me: Me | null) {
   client.removeQueries({ predicate: (query) => query.queryKey[0] !== sessionKeys.me[0] });
 }
 
-/**
- * Who the page was served to (see server/web/serve-build.ts), read once: `undefined` when the
- * page carries nothing usable, and the session query then asks the server itself.
- */
-function takeSessionFromPage(): Me | null | undefined {
-  if (typeof document === 'undefined') return undefined;
-  const element = document.getElementById(BOOT_ELEMENT_ID);
-  if (!element) return undefined;
-  element.remove();
-  try {
-    const parsed = sessionSchema.safeParse(JSON.parse(element.textContent ?? ''));
-    return parsed.success ? parsed.data.me : undefined;
-  } catch {
-    return undefined;
-  }
-}
-
 /** The signed-in person and their collections; `null` when signed out. */
 export function useMeQuery() {
   return useQuery({
     queryKey: sessionKeys.me,
     queryFn: async (): Promise<Me | null> => (await request('/session', { schema: sessionSchema })).me,
-    initialData: takeSessionFromPage,
+    initialData: meFromPage,
   });
 }
 

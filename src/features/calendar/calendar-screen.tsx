@@ -11,7 +11,8 @@ import { QueryState } from '@/components/query-state';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
-import { formatDate, localToday } from '@/lib/dates';
+import { formatDate } from '@/lib/dates';
+import { useToday } from '@/lib/use-today';
 import { useIsWide } from '@/lib/use-is-wide';
 import type { BloomCalendarResponse } from '@/shared/schemas/engine';
 import { colors, radius, spacing } from '@/theme';
@@ -29,7 +30,7 @@ const ALL_PLANTS: PlantFilters = { sort: 'tag', pageSize: 100 };
 export function CalendarScreen() {
   const wide = useIsWide();
   const { collectionId } = useCollectionSettings();
-  const today = localToday();
+  const today = useToday();
   const [offset, setOffset] = useState(0);
   const [onText, setOnText] = useState('');
   const [genus, setGenus] = useState<string | null>(null);

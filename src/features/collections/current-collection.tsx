@@ -1,6 +1,7 @@
 import { createContext, useCallback, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
 import { CURRENT_COLLECTION_COOKIE } from '@/shared/boot';
 import type { CollectionSummary } from '@/shared/schemas/auth';
+import { collectionFromPage } from '@/api/page-data';
 import { storage } from '@/lib/storage';
 
 const STORAGE_KEY = 'sympodia.currentCollection';
@@ -29,7 +30,9 @@ const Context = createContext<CurrentCollection | null>(null);
 
 /** Remembers which of the person's collections they are working in (per browser). */
 export function CurrentCollectionProvider({ collections, children }: { collections: CollectionSummary[]; children: ReactNode }) {
-  const [chosen, setChosen] = useState<string | null>(() => storage.get(STORAGE_KEY));
+  // The page's collection first: the server drew the page in it (from the cookie that mirrors
+  // this choice), and the browser's first draw must match.
+  const [chosen, setChosen] = useState<string | null>(() => collectionFromPage() ?? storage.get(STORAGE_KEY));
   const select = useCallback((id: string) => {
     rememberCollection(id);
     setChosen(id);

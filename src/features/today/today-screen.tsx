@@ -8,6 +8,7 @@ import { Text } from '@/components/text';
 import { formatDate } from '@/lib/dates';
 import { formatLongDate } from '@/lib/format';
 import { useIsWide } from '@/lib/use-is-wide';
+import { useToday } from '@/lib/use-today';
 import type { AttentionListResponse } from '@/shared/schemas/engine';
 import { colors, radius, spacing } from '@/theme';
 import { useCurrentCollection } from '../collections/current-collection';
@@ -35,8 +36,9 @@ export function TodayScreen() {
   const wide = useIsWide();
   const { collection } = useCurrentCollection();
   const attention = useAttentionQuery(collection?.id ?? '');
+  const [year, month, day] = useToday().split('-').map(Number);
   return (
-    <Screen title="Today" subtitle={`${formatLongDate(new Date())}${collection ? ` · ${collection.name}` : ''}`} testID="today-screen">
+    <Screen title="Today" subtitle={`${formatLongDate(new Date(year, month - 1, day))}${collection ? ` · ${collection.name}` : ''}`} testID="today-screen">
       {collection ? <ColdNightsCard collectionId={collection.id} isOwner={collection.role === 'owner'} /> : null}
       <QueryState
         query={attention}

@@ -55,9 +55,23 @@ export const meSchema = z.object({
 /** GET /api/session: who is signed in in this browser, or `me: null`. */
 export const sessionSchema = z.object({ me: meSchema.nullable() });
 
+/**
+ * What a page of the app is served with: who is signed in (absent when the server could not
+ * tell), the collection its screens were drawn in, the first screen's API answers by path, and
+ * the date it was drawn on.
+ */
+export const pageDataSchema = z.object({
+  me: meSchema.nullable().optional(),
+  collectionId: z.string().optional(),
+  responses: z.record(z.string(), z.unknown()).optional(),
+  /** The server's calendar date when it drew the page (`YYYY-MM-DD`). */
+  today: z.string().optional(),
+});
+
 export type SignUpInput = z.infer<typeof signUpInputSchema>;
 export type SignInInput = z.infer<typeof signInInputSchema>;
 export type Role = z.infer<typeof roleSchema>;
 export type CollectionSummary = z.infer<typeof collectionSummarySchema>;
 export type User = z.infer<typeof userSchema>;
 export type Me = z.infer<typeof meSchema>;
+export type PageData = z.infer<typeof pageDataSchema>;

@@ -1,11 +1,15 @@
 import { Platform } from 'react-native';
 
-/** Whether this device can save a downloaded file and pick one to send (the web app can). */
-export const canHandleFiles = Platform.OS === 'web' && typeof document !== 'undefined';
+/**
+ * Whether this device can save a downloaded file and pick one to send (the web app can). The
+ * same on the server that draws the web page as in the browser, so the two draws agree.
+ */
+export const canHandleFiles = Platform.OS === 'web';
+const inBrowser = () => canHandleFiles && typeof document !== 'undefined';
 
 /** Hands a downloaded file to the browser, which saves it as `fileName`. */
 export function saveFile(blob: Blob, fileName: string): void {
-  if (!canHandleFiles) throw new Error('Saving files works in the web app; open Sympodia in a browser to export');
+  if (!inBrowser()) throw new Error('Saving files works in the web app; open Sympodia in a browser to export');
   const url = URL.createObjectURL(blob);
   const link = document.createElement('a');
   link.href = url;
@@ -21,7 +25,7 @@ export function saveFile(blob: Blob, fileName: string): void {
 
 /** Opens the system file chooser for one JSON file; null when the person cancels. */
 export function pickJsonFile(): Promise<File | null> {
-  if (!canHandleFiles) return Promise.reject(new Error('Choosing a file works in the web app; open Sympodia in a browser to restore'));
+  if (!inBrowser()) return Promise.reject(new Error('Choosing a file works in the web app; open Sympodia in a browser to restore'));
   return new Promise((resolve) => {
     const input = document.createElement('input');
     input.type = 'file';

@@ -3,6 +3,7 @@ import { ActivityIndicator, ScrollView, StyleSheet, View } from 'react-native';
 import { Button } from '@/components/button';
 import { Text } from '@/components/text';
 import { formatDate } from '@/lib/dates';
+import { useInBrowser } from '@/lib/use-in-browser';
 import { colors, spacing } from '@/theme';
 import type { LeadChartData } from './chart-data';
 
@@ -15,6 +16,9 @@ const SkiaChartHost = lazy(() => import('./skia-chart-host'));
  */
 export function LeadChart({ data, summary }: { data: LeadChartData; summary: string }) {
   const [asTable, setAsTable] = useState(false);
+  // CanvasKit runs in browsers only: the page drawn on the server shows the loading mark.
+  const inBrowser = useInBrowser();
+  const drawing = <ActivityIndicator color={colors.accent} style={styles.loading} accessibilityLabel="Drawing the chart" />;
   return (
     <View style={styles.wrap} testID="lead-chart">
       <Text variant="bodyStrong" testID="chart-summary">
@@ -26,9 +30,13 @@ export function LeadChart({ data, summary }: { data: LeadChartData; summary: str
       ) : (
         <View accessible accessibilityRole="image" aria-label={`Chart: ${summary}`}>
           <ChartBoundary>
-            <Suspense fallback={<ActivityIndicator color={colors.accent} style={styles.loading} accessibilityLabel="Drawing the chart" />}>
-              <SkiaChartHost data={data} />
-            </Suspense>
+            {inBrowser ? (
+              <Suspense fallback={drawing}>
+                <SkiaChartHost data={data} />
+              </Suspense>
+            ) : (
+              drawing
+            )}
           </ChartBoundary>
         </View>
       )}

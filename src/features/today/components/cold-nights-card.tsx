@@ -6,6 +6,7 @@ import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { QueryState } from '@/components/query-state';
 import { Text } from '@/components/text';
+import { useInBrowser } from '@/lib/use-in-browser';
 import { formatDate } from '@/lib/dates';
 import type { BringInPlant, ColdNight, ColdNights } from '@/shared/schemas/cold-nights';
 import { colors, radius, spacing } from '@/theme';
@@ -114,13 +115,16 @@ function NightPlants({ night, label, testID }: { night: ColdNight; label: string
 
 function LaterNight({ night }: { night: ColdNight }) {
   const [open, setOpen] = useState(false);
+  // Not ready until the page's scripts have taken it over (a press before would do nothing).
+  const ready = useInBrowser();
   const label = `${formatDate(night.date)}: forecast low ${formatC(night.lowC)}, ${night.plants.length} plant${night.plants.length === 1 ? '' : 's'} to bring in`;
   return (
     <View style={styles.later} testID={`cold-night-${night.date}`}>
       <Pressable
         accessibilityRole="button"
-        accessibilityState={{ expanded: open }}
+        accessibilityState={{ expanded: open, disabled: !ready }}
         accessibilityLabel={`${label}. ${open ? 'Hide' : 'Show'} the plants`}
+        disabled={!ready}
         onPress={() => setOpen(!open)}
         style={styles.laterHead}
       >

@@ -1,0 +1,63 @@
+import type { z } from 'zod';
+import { BOOT_ELEMENT_ID, PAGE_DATA_GLOBAL } from '@/shared/boot';
+import { pageDataSchema, type Me, type PageData } from '@/shared/schemas/auth';
+
+/**
+ * What the page was served with (see server/web/serve-build.ts): who is signed in, the
+ * collection its screens open and the first screen's first API answers. The server draws the
+ * page from these and writes them into it, so the browser's first draw is the same page and no
+ * request is made twice. On the server they are handed over in a global for the one render in
+ * progress; in the browser they are read once from the page's JSON element.
+ */
+let fromPage: PageData | null | undefined;
+
+function pageData(): PageData | null {
+  const handed = (globalThis as Record<string, unknown>)[PAGE_DATA_GLOBAL];
+  if (handed !== undefined) {
+    const parsed = pageDataSchema.safeParse(handed);
+    return parsed.success ? parsed.data : null;
+  }
+  if (fromPage !== undefined) return fromPage;
+  fromPage = null;
+  if (typeof document === 'undefined') return null;
+  const element = document.getElementById(BOOT_ELEMENT_ID);
+  if (!element) return null;
+  element.remove();
+  try {
+    const parsed = pageDataSchema.safeParse(JSON.parse(element.textContent ?? ''));
+    if (parsed.success) fromPage = parsed.data;
+  } catch {
+    // An unreadable element: the screens ask the server themselves.
+  }
+  return fromPage;
+}
+
+/** Who the page was served to; `undefined` when it does not say (the session query then asks). */
+export function meFromPage(): Me | null | undefined {
+  return pageData()?.me;
+}
+
+/** The collection the server drew the page's screens in, if it drew any. */
+export function collectionFromPage(): string | undefined {
+  return pageData()?.collectionId;
+}
+
+/** The date the server drew the page on: what the browser's first draw must show as today. */
+export function todayFromPage(): string | undefined {
+  return pageData()?.today;
+}
+
+/**
+ * The page's answer for `path` (as passed to `request`), parsed with the query's own schema,
+ * and forgotten in the browser once taken: a later visit to the screen asks the server, so an
+ * answer as old as the page is never shown as fresh.
+ */
+export function responseFromPage<S extends z.ZodType>(path: string, schema: S): z.infer<S> | undefined {
+  const data = pageData();
+  const responses = data?.responses;
+  const body = responses?.[path];
+  if (!responses || body === undefined) return undefined;
+  if (data === fromPage) delete responses[path];
+  const parsed = schema.safeParse(body);
+  return parsed.success ? parsed.data : undefined;
+}
