@@ -47,6 +47,26 @@ test('Today comes drawn by the server: readable before any script runs', async (
   await context.close();
 });
 
+test("the server draws the layout this browser last had: the side rail on a wide screen, the tab bar on a phone", async ({ page, browser, baseURL }, info) => {
+  await signInAs(page, 'grower');
+  await expect(page.getByTestId('attention-list')).toBeVisible();
+  // The same browser's cookies, with scripts off: what arrives is the server's drawing alone.
+  const viewport = page.viewportSize()!;
+  const context = await browser.newContext({ javaScriptEnabled: false, baseURL, viewport });
+  await context.addCookies(await page.context().cookies());
+  const drawn = await context.newPage();
+  await drawn.goto('/');
+  const tab = await drawn.getByTestId('tab-plants').boundingBox();
+  expect(tab).not.toBeNull();
+  if (info.project.name === 'phone') {
+    expect(tab!.y).toBeGreaterThan(viewport.height - 100);
+  } else {
+    expect(tab!.x).toBeLessThan(260);
+    expect(tab!.y).toBeLessThan(viewport.height / 2);
+  }
+  await context.close();
+});
+
 test('a signed-in reload of Today asks for nothing the page carries, and its scripts come Brotli-compressed', async ({ page }) => {
   await signInAs(page, 'grower');
   const requests = watchRequests(page);

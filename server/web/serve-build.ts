@@ -6,7 +6,7 @@ import expressStaticGzip from 'express-static-gzip';
 import type { Logger } from 'pino';
 import type { Me, PageData } from '@/shared/schemas/auth';
 import { localToday } from '@/lib/dates';
-import { BOOT_ELEMENT_ID, CURRENT_COLLECTION_COOKIE, PAGE_DATA_GLOBAL } from '@/shared/boot';
+import { BOOT_ELEMENT_ID, CURRENT_COLLECTION_COOKIE, PAGE_DATA_GLOBAL, WIDE_LAYOUT_COOKIE } from '@/shared/boot';
 import type { AppContext } from '../context';
 import { HttpError } from '../errors';
 import { readSession } from '../middleware/session';
@@ -20,6 +20,11 @@ const FIRST_RESPONSE_TIMEOUT_MS = 5_000;
 /** `<`, U+2028 and U+2029 written as escapes, so the JSON cannot end its script element early. */
 function jsonForScript(value: unknown): string {
   return JSON.stringify(value).replace(/</g, '\\u003c').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
+}
+
+/** A cookie's raw value in the request, if it has one. */
+function cookie(req: Request, name: string): string | undefined {
+  return new RegExp(`(?:^|;\\s*)${name}=([^;]*)`).exec(req.headers.cookie ?? '')?.[1];
 }
 
 /** The render module of Expo Router's server output (`server/_expo/server/render.js`). */
@@ -138,7 +143,7 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
 
   /** The collection the page's screens will open: the browser's remembered one, else the first (as the app chooses). */
   function currentCollection(req: Request, me: Me): string | undefined {
-    const remembered = new RegExp(`(?:^|;\\s*)${CURRENT_COLLECTION_COOKIE}=([^;]*)`).exec(req.headers.cookie ?? '')?.[1];
+    const remembered = cookie(req, CURRENT_COLLECTION_COOKIE);
     return me.collections.find((c) => c.id === remembered)?.id ?? me.collections[0]?.id;
   }
 
@@ -179,6 +184,7 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
       ...(me === undefined ? {} : { me }),
       ...(collectionId ? { collectionId, responses: await firstResponses(req, firstRequests(route, collectionId)) } : {}),
       today: localToday(),
+      ...(cookie(req, WIDE_LAYOUT_COOKIE) === '1' ? { wide: true } : {}),
     };
     const url = new URL(req.originalUrl, 'http://page.invalid');
     const rendered = await renderPage(url, route.assets, data);

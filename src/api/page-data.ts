@@ -47,6 +47,11 @@ export function todayFromPage(): string | undefined {
   return pageData()?.today;
 }
 
+/** Whether the server drew the page in the wide layout; `undefined` when it did not say. */
+export function wideFromPage(): boolean | undefined {
+  return pageData()?.wide;
+}
+
 /**
  * The page's answer for `path` (as passed to `request`), parsed with the query's own schema,
  * and forgotten in the browser once taken: a later visit to the screen asks the server, so an

@@ -1,6 +1,10 @@
-import { useSyncExternalStore } from 'react';
+import { useEffect, useSyncExternalStore } from 'react';
 import { Dimensions } from 'react-native';
+import { wideFromPage } from '@/api/page-data';
+import { WIDE_LAYOUT_COOKIE } from '@/shared/boot';
 import { WIDE_BREAKPOINT } from '@/theme';
+
+const A_YEAR_S = 365 * 24 * 3600;
 
 function subscribe(onChange: () => void): () => void {
   const subscription = Dimensions.addEventListener('change', onChange);
@@ -8,10 +12,25 @@ function subscribe(onChange: () => void): () => void {
 }
 
 const isWideNow = () => Dimensions.get('window').width >= WIDE_BREAKPOINT;
-/** The server cannot know the width: it draws the phone layout (phone first), and so does the browser's first draw over it. */
-const onServer = () => false;
+/**
+ * The server cannot measure the window: it draws the layout this browser last had (a cookie),
+ * else the phone's (phone first), and the browser's first draw over the page does the same.
+ */
+const onServer = () => wideFromPage() ?? false;
+
+let remembered: boolean | undefined;
+
+/** Keeps the layout in a cookie, so the server draws the next page in it. */
+function rememberLayout(wide: boolean): void {
+  if (remembered === wide || typeof document === 'undefined') return;
+  remembered = wide;
+  const secure = globalThis.location?.protocol === 'https:' ? '; secure' : '';
+  document.cookie = `${WIDE_LAYOUT_COOKIE}=${wide ? '1' : '0'}; path=/; max-age=${A_YEAR_S}; samesite=lax${secure}`;
+}
 
 /** True from the width where the tabs become a side rail and screens use two columns. */
 export function useIsWide(): boolean {
-  return useSyncExternalStore(subscribe, isWideNow, onServer);
+  const wide = useSyncExternalStore(subscribe, isWideNow, onServer);
+  useEffect(() => rememberLayout(wide), [wide]);
+  return wide;
 }

@@ -13,3 +13,6 @@ export const PAGE_DATA_GLOBAL = '__sympodiaPageData';
  * the server can name that collection's records among the page's preloads.
  */
 export const CURRENT_COLLECTION_COOKIE = 'sympodia_collection';
+
+/** Whether this browser's window last had the wide layout (`1`) or the phone's (`0`), so the server draws the page in it. */
+export const WIDE_LAYOUT_COOKIE = 'sympodia_wide';

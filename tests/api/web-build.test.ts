@@ -7,7 +7,7 @@ import zlib from 'node:zlib';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { pageDataSchema, type PageData } from '@/shared/schemas/auth';
-import { BOOT_ELEMENT_ID, CURRENT_COLLECTION_COOKIE } from '@/shared/boot';
+import { BOOT_ELEMENT_ID, CURRENT_COLLECTION_COOKIE, WIDE_LAYOUT_COOKIE } from '@/shared/boot';
 import { memberships } from '../../db/schema';
 import { buildCollectionWithMembers, insertUser, sessionCookieFor } from '../factories/users';
 import { testDb } from './support/database';
@@ -165,6 +165,16 @@ describe('serving the web build', () => {
     expect(dataSeenByRender(page.text)).toEqual(data);
     // Nothing is left in the global once the page is drawn.
     expect((globalThis as Record<string, unknown>).__sympodiaPageData).toBeUndefined();
+  });
+
+  it('draws the page in the layout the browser last had, the phone layout when it has not said', async () => {
+    const db = testDb();
+    const { people } = await buildCollectionWithMembers(db, 'Layout bench');
+    const wide = dataInPage((await supertest(server.url).get('/').set('Cookie', `${people.grower.cookie}; ${WIDE_LAYOUT_COOKIE}=1`)).text);
+    expect(wide?.wide).toBe(true);
+    const narrow = dataInPage((await supertest(server.url).get('/').set('Cookie', `${people.grower.cookie}; ${WIDE_LAYOUT_COOKIE}=0`)).text);
+    expect(narrow?.wide).toBeUndefined();
+    expect(dataInPage((await supertest(server.url).get('/sign-in')).text)?.wide).toBeUndefined();
   });
 
   it("carries the screen's first API answers, in the browser's current collection", async () => {

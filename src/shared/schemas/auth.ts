@@ -66,6 +66,8 @@ export const pageDataSchema = z.object({
   responses: z.record(z.string(), z.unknown()).optional(),
   /** The server's calendar date when it drew the page (`YYYY-MM-DD`). */
   today: z.string().optional(),
+  /** Whether the page was drawn in the wide layout (the browser's last, from its cookie). */
+  wide: z.boolean().optional(),
 });
 
 export type SignUpInput = z.infer<typeof signUpInputSchema>;
