@@ -9,6 +9,7 @@ import { createRateLimits } from '../../server/middleware/rate-limit';
 import { buildCollectionWithMembers, buildSignUp } from '../factories/users';
 import { testDb } from './support/database';
 import { browser, startTestServer, type TestServer } from './support/server';
+import { writeStandInBuild } from './support/web-build';
 
 /**
  * Access extras beside tests/api/auth.test.ts (which covers HttpOnly, SameSite, Secure behind
@@ -22,7 +23,7 @@ let webRoot: string;
 beforeAll(async () => {
   // A stand-in web build, so the headers on the app's own pages are checked too.
   webRoot = await fs.mkdtemp(path.join(os.tmpdir(), 'sympodia-security-web-'));
-  await fs.writeFile(path.join(webRoot, 'index.html'), '<!doctype html><html><head><title>Sympodia</title></head><body><div id="root"></div></body></html>');
+  await writeStandInBuild(webRoot);
   server = await startTestServer({ webRoot });
 });
 afterAll(async () => {
