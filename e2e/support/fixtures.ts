@@ -26,12 +26,13 @@ export const test = base.extend<{ page: Page }>({
         problems.push(`request left the machine: ${request.url()}`);
       }
     });
-    // A page arrives drawn by the server; its scripts take it over a moment later (the root
-    // layout then marks <html data-ready>). A person waits for a page to respond; so do the
+    // An app page arrives drawn by the server; its scripts take it over a moment later (the
+    // root layout then marks <html data-ready>). A person waits for a page to respond; so do the
     // tests, after every load they ask for.
     const goto = page.goto.bind(page);
     const reload = page.reload.bind(page);
-    const ready = () => page.locator('html[data-ready]').waitFor({ state: 'attached' });
+    // Pages that are not the app's (the dev mailbox) have no #root and nothing to wait for.
+    const ready = () => page.waitForFunction(() => !document.getElementById('root') || document.documentElement.dataset.ready === 'true');
     page.goto = async (...args) => {
       const response = await goto(...args);
       await ready();

@@ -25,7 +25,7 @@ export interface PageRoute {
   /** Its dynamic segments' values by name, decoded. */
   params: Record<string, string>;
   /** Every script and style sheet the page loads, in order. */
-  assets: { js: string[]; css: string[]; favicon?: string };
+  assets: { js: string[]; css: string[] };
 }
 
 export function readRoutesManifest(serverRoot: string): RoutesManifest {
@@ -58,7 +58,6 @@ export function pageRouter(manifest: RoutesManifest): (urlPath: string) => PageR
         assets: {
           js: [...manifest.assets.js, ...(route.assets?.js ?? [])],
           css: [...manifest.assets.css, ...(route.assets?.css ?? [])],
-          favicon: manifest.assets.favicon,
         },
       };
     }

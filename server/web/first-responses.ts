@@ -23,8 +23,8 @@ const FIRST_REQUESTS: Record<string, (collection: string, params: Record<string,
  * The first API requests (paths under /api) of the screen at `route`, in `collectionId` (one of
  * the signed-in person's). Ids in the path that are not well formed get none: the screen will say so.
  */
-export function firstRequests(route: PageRoute | null, collectionId: string): string[] {
-  const requests = route && FIRST_REQUESTS[route.file];
+export function firstRequests(route: PageRoute, collectionId: string): string[] {
+  const requests = FIRST_REQUESTS[route.file];
   if (!requests) return [];
   if (!Object.values(route.params).every((value) => idSchema.safeParse(value).success)) return [];
   return requests(collectionId, route.params);

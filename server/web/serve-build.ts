@@ -14,8 +14,11 @@ import { describeMe } from '../services/me';
 import { pageRouter, readRoutesManifest, type PageRoute } from './expo-routes';
 import { firstRequests } from './first-responses';
 
-/** How long the page waits for one of its screen's first answers before leaving it to the browser. */
-const FIRST_RESPONSE_TIMEOUT_MS = 5_000;
+/**
+ * How long the page waits for one of its screen's first answers before leaving it to the
+ * browser. Short: every answer holds back the whole page (cold nights wait on the forecast service).
+ */
+const FIRST_RESPONSE_TIMEOUT_MS = 1_500;
 
 /** `<`, U+2028 and U+2029 written as escapes, so the JSON cannot end its script element early. */
 function jsonForScript(value: unknown): string {
@@ -94,7 +97,7 @@ function inlineScriptHashes(html: string): string[] {
 function allowScripts(res: Response, hashes: string[]): void {
   const policy = res.getHeader('Content-Security-Policy');
   if (typeof policy !== 'string' || hashes.length === 0) return;
-  res.setHeader('Content-Security-Policy', policy.replace(/(^|;)(\s*script-src[^;]*)/, (_m, start: string, directive: string) => `${start}${directive} ${hashes.join(' ')}`));
+  res.setHeader('Content-Security-Policy', policy.replace(/(^|;)(\s*script-src(?=[\s;]|$)[^;]*)/, (_m, start: string, directive: string) => `${start}${directive} ${hashes.join(' ')}`));
 }
 
 /**
@@ -163,7 +166,9 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
             headers: { cookie: req.headers.cookie ?? '' },
             signal: AbortSignal.timeout(FIRST_RESPONSE_TIMEOUT_MS),
           });
-          return answer.ok ? ([apiPath, await answer.json()] as const) : null;
+          if (answer.ok) return [apiPath, await answer.json()] as const;
+          await answer.body?.cancel();
+          return null;
         } catch (error) {
           logger.warn({ err: error, path: apiPath }, "page drawn without one of its screen's first answers");
           return null;
@@ -178,15 +183,19 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
     if (/\.[a-z0-9]+$/i.test(req.path)) return next(new HttpError(404, 'not_found', `No file ${req.path}`));
     const route = routeOf(req.path);
     if (!route) return next(new HttpError(400, 'bad_path', 'The address could not be read'));
+    // The path as a path: `//host/x` in the request line must not become a host.
+    const url = new URL('http://page.invalid');
+    url.pathname = req.path;
+    url.search = new URL(req.originalUrl, 'http://page.invalid').search;
     const me = await signedIn(req, res);
     const collectionId = me ? currentCollection(req, me) : undefined;
+    const answeredAt = Date.now();
     const data: PageData = {
       ...(me === undefined ? {} : { me }),
-      ...(collectionId ? { collectionId, responses: await firstResponses(req, firstRequests(route, collectionId)) } : {}),
+      ...(collectionId ? { collectionId, responses: await firstResponses(req, firstRequests(route, collectionId)), answeredAt } : {}),
       today: localToday(),
       ...(cookie(req, WIDE_LAYOUT_COOKIE) === '1' ? { wide: true } : {}),
     };
-    const url = new URL(req.originalUrl, 'http://page.invalid');
     const rendered = await renderPage(url, route.assets, data);
     const sources = [...rendered.matchAll(DEFERRED_SCRIPT)].map((m) => m[1]);
     const html = rendered.replace(DEFERRED_SCRIPT, '').replace('</body>', () => `${scriptsAfterPaint(sources)}</body>`);
@@ -198,6 +207,6 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
     // The head manager's own title is empty (no screen sets one): the document's own stands.
     const page = html.replace('<title data-rh="true"></title>', '');
     // A function as the replacement, so a `$&` or `$'` in someone's name is not read as a pattern.
-    res.type('html').send(page.includes('</head>') ? page.replace('</head>', () => `${carried}</head>`) : carried + page);
+    res.type('html').send(page.replace('</head>', () => `${carried}</head>`));
   });
 }

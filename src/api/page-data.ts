@@ -37,9 +37,16 @@ export function meFromPage(): Me | null | undefined {
   return pageData()?.me;
 }
 
-/** The collection the server drew the page's screens in, if it drew any. */
+/**
+ * The collection the server drew the page's screens in, if it drew any. In the browser it is
+ * taken once, by the first draw: a later one (after signing in again, say) opens the
+ * browser's own choice.
+ */
 export function collectionFromPage(): string | undefined {
-  return pageData()?.collectionId;
+  const data = pageData();
+  const id = data?.collectionId;
+  if (data && data === fromPage) delete data.collectionId;
+  return id;
 }
 
 /** The date the server drew the page on: what the browser's first draw must show as today. */
@@ -50,6 +57,11 @@ export function todayFromPage(): string | undefined {
 /** Whether the server drew the page in the wide layout; `undefined` when it did not say. */
 export function wideFromPage(): boolean | undefined {
   return pageData()?.wide;
+}
+
+/** When the server asked for the page's answers (ms since 1970), for their queries' age. */
+export function answeredAtFromPage(): number | undefined {
+  return pageData()?.answeredAt;
 }
 
 /**
@@ -65,4 +77,12 @@ export function responseFromPage<S extends z.ZodType>(path: string, schema: S): 
   if (data === fromPage) delete responses[path];
   const parsed = schema.safeParse(body);
   return parsed.success ? parsed.data : undefined;
+}
+
+/**
+ * Drops the page's answers no screen has taken yet: after a write, or when someone else signs
+ * in, they no longer describe the records.
+ */
+export function forgetPageAnswers(): void {
+  if (fromPage) delete fromPage.responses;
 }

@@ -10,7 +10,7 @@ export const PAGE_DATA_GLOBAL = '__sympodiaPageData';
 
 /**
  * The collection this browser works in, kept in a cookie as well as in local storage, so
- * the server can name that collection's records among the page's preloads.
+ * the server can draw the page in that collection.
  */
 export const CURRENT_COLLECTION_COOKIE = 'sympodia_collection';
 

@@ -125,6 +125,8 @@ describe('serving the web build', () => {
     expect(data?.me?.user.email).toBe(people.grower.email);
     expect(data?.me?.collections.map((c) => c.id)).toContain(collectionId);
     expect(data?.today).toMatch(/^\d{4}-\d{2}-\d{2}$/);
+    // When its answers were asked for, so the browser knows their age.
+    expect(Math.abs(Date.now() - (data?.answeredAt ?? 0))).toBeLessThan(60_000);
     // The same answer GET /api/session gives, and what the app was drawn from.
     const api = await supertest(server.url).get('/api/session').set('Cookie', people.grower.cookie);
     expect(data?.me).toEqual(api.body.me);
@@ -189,6 +191,12 @@ describe('serving the web build', () => {
       expect(seen.me?.user.displayName).toBe(visitors[i].name);
       expect(dataInPage(page.text)?.me?.user.displayName).toBe(visitors[i].name);
     });
+  });
+
+  it('draws an address that starts with two slashes as a path, never as another host', async () => {
+    const page = await supertest(server.url).get('//evil.example/x?y=1');
+    expect(page.status).toBe(200);
+    expect(page.text).toContain('<div id="root" data-path="//evil.example/x">');
   });
 
   it('writes a name that looks like markup so it cannot end the script element', async () => {

@@ -1,7 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { coldNightsSchema } from '@/shared/schemas/cold-nights';
 import { request } from '../client';
-import { responseFromPage } from '../page-data';
+import { answeredAtFromPage, responseFromPage } from '../page-data';
 import { recordKeys } from './records';
 
 /** Under the records key: moving a plant, marking an area indoors or a new limit refreshes it. */
@@ -18,6 +18,7 @@ export function useColdNightsQuery(collectionId: string) {
     queryKey: coldNightKeys.forCollection(collectionId),
     queryFn: () => request(`/collections/${collectionId}/cold-nights`, { schema: coldNightsSchema }),
     initialData: () => responseFromPage(`/collections/${collectionId}/cold-nights`, coldNightsSchema),
+    initialDataUpdatedAt: answeredAtFromPage,
     enabled: collectionId !== '',
     staleTime: COLD_NIGHTS_STALE_MS,
   });

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import type { Role } from '@/shared/schemas/auth';
 import { collectionSchema, memberSchema, type UpdateCollectionInput } from '@/shared/schemas/collections';
 import { request } from '../client';
-import { responseFromPage } from '../page-data';
+import { answeredAtFromPage, responseFromPage } from '../page-data';
 import { sessionKeys } from './session';
 
 export const collectionKeys = {
@@ -17,6 +17,7 @@ export function useCollectionQuery(id: string | undefined) {
     queryKey: collectionKeys.detail(id ?? 'none'),
     queryFn: () => request(`/collections/${id}`, { schema: collectionSchema }),
     initialData: () => responseFromPage(`/collections/${id}`, collectionSchema),
+    initialDataUpdatedAt: answeredAtFromPage,
     enabled: !!id,
   });
 }

@@ -8,7 +8,7 @@ import {
   plantTrendSchema,
 } from '@/shared/schemas/engine';
 import { request } from '../client';
-import { responseFromPage } from '../page-data';
+import { answeredAtFromPage, responseFromPage } from '../page-data';
 import { recordKeys } from './records';
 
 /** Forecasts live under the records key, so any record write refreshes them too. */
@@ -46,6 +46,7 @@ export function useLeadForecastQuery(collectionId: string, leadId: string) {
     queryKey: engineKeys.forecast(collectionId, leadId),
     queryFn: () => request(`${base(collectionId)}/leads/${leadId}/forecast`, { schema: leadForecastSchema }),
     initialData: () => responseFromPage(`${base(collectionId)}/leads/${leadId}/forecast`, leadForecastSchema),
+    initialDataUpdatedAt: answeredAtFromPage,
   });
 }
 
@@ -61,6 +62,7 @@ export function useAttentionQuery(collectionId: string, date?: string) {
     queryKey: engineKeys.attention(collectionId, date),
     queryFn: () => request(`${base(collectionId)}/attention${query({ date })}`, { schema: attentionListSchema }),
     initialData: () => responseFromPage(`${base(collectionId)}/attention${query({ date })}`, attentionListSchema),
+    initialDataUpdatedAt: answeredAtFromPage,
     enabled: !!collectionId,
   });
 }

@@ -17,7 +17,7 @@ import {
   type PlantInput,
 } from '@/shared/schemas/records';
 import { request } from '../client';
-import { responseFromPage } from '../page-data';
+import { answeredAtFromPage, responseFromPage } from '../page-data';
 
 export interface PlantFilters {
   q?: string;
@@ -75,6 +75,7 @@ export function useLeadQuery(collectionId: string, leadId: string | null | undef
     queryKey: recordKeys.lead(collectionId, leadId ?? 'none'),
     queryFn: () => request(`${base(collectionId)}/leads/${leadId}`, { schema: leadDetailSchema }),
     initialData: () => responseFromPage(`${base(collectionId)}/leads/${leadId}`, leadDetailSchema),
+    initialDataUpdatedAt: answeredAtFromPage,
     enabled: !!leadId,
   });
 }

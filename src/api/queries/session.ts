@@ -1,7 +1,7 @@
 import { QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { meSchema, sessionSchema, type Me, type SignInInput, type SignUpInput } from '@/shared/schemas/auth';
 import { request } from '../client';
-import { meFromPage } from '../page-data';
+import { forgetPageAnswers, meFromPage } from '../page-data';
 
 export const sessionKeys = { me: ['me'] as const };
 
@@ -10,6 +10,7 @@ export const sessionKeys = { me: ['me'] as const };
  * observers so guarded layouts redirect at once, and every other cached record goes.
  */
 function switchPerson(client: QueryClient, me: Me | null) {
+  forgetPageAnswers();
   client.setQueryData(sessionKeys.me, me);
   client.removeQueries({ predicate: (query) => query.queryKey[0] !== sessionKeys.me[0] });
 }

@@ -64,6 +64,8 @@ export const pageDataSchema = z.object({
   me: meSchema.nullable().optional(),
   collectionId: z.string().optional(),
   responses: z.record(z.string(), z.unknown()).optional(),
+  /** When the server asked for those answers (ms since 1970). */
+  answeredAt: z.number().optional(),
   /** The server's calendar date when it drew the page (`YYYY-MM-DD`). */
   today: z.string().optional(),
   /** Whether the page was drawn in the wide layout (the browser's last, from its cookie). */

@@ -1,7 +1,7 @@
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import { z } from 'zod';
 import { collectionFromPage, meFromPage, responseFromPage, todayFromPage } from '@/api/page-data';
-import { PAGE_DATA_GLOBAL } from '@/shared/boot';
+import { BOOT_ELEMENT_ID, PAGE_DATA_GLOBAL } from '@/shared/boot';
 
 const holder = globalThis as Record<string, unknown>;
 const me = { user: { id: 'u1', email: 'a@b.test', displayName: 'Ann' }, collections: [{ id: '8848a0f4-4519-4105-8a3e-c36b3c5b6a0f', name: 'Bench', role: 'owner' }] };
@@ -32,5 +32,52 @@ describe('page data during a server render', () => {
     holder[PAGE_DATA_GLOBAL] = { me: { user: 'nobody' } };
     expect(meFromPage()).toBeUndefined();
     expect(collectionFromPage()).toBeUndefined();
+  });
+});
+
+describe('page data in the browser', () => {
+  const collectionId = '8848a0f4-4519-4105-8a3e-c36b3c5b6a0f';
+  let removed = 0;
+
+  /** The page module afresh, over a stand-in document holding `text` in the page's element. */
+  async function pageWith(text: string) {
+    vi.resetModules();
+    removed = 0;
+    const element = { textContent: text, remove: () => (removed += 1) };
+    vi.stubGlobal('document', { getElementById: (id: string) => (id === BOOT_ELEMENT_ID ? element : null) });
+    return import('@/api/page-data');
+  }
+
+  afterEach(() => {
+    vi.unstubAllGlobals();
+  });
+
+  it('reads the element once and takes it out of the page', async () => {
+    const page = await pageWith(JSON.stringify({ me, collectionId, today: '2026-12-02', wide: true, answeredAt: 1, responses: {} }));
+    expect(page.meFromPage()).toEqual(me);
+    expect(page.todayFromPage()).toBe('2026-12-02');
+    expect(page.wideFromPage()).toBe(true);
+    expect(page.answeredAtFromPage()).toBe(1);
+    expect(removed).toBe(1);
+  });
+
+  it('gives an answer and the collection once: a later screen or sign-in asks for itself', async () => {
+    const schema = z.object({ items: z.array(z.unknown()) });
+    const page = await pageWith(JSON.stringify({ me, collectionId, responses: { '/a': { items: [] }, '/b': { items: [1] } } }));
+    expect(page.responseFromPage('/a', schema)).toEqual({ items: [] });
+    expect(page.responseFromPage('/a', schema)).toBeUndefined();
+    expect(page.collectionFromPage()).toBe(collectionId);
+    expect(page.collectionFromPage()).toBeUndefined();
+    // After a write, answers no screen has taken are dropped too.
+    page.forgetPageAnswers();
+    expect(page.responseFromPage('/b', schema)).toBeUndefined();
+    // Who is signed in stays: the session query took it at the start.
+    expect(page.meFromPage()).toEqual(me);
+  });
+
+  it('says nothing when the element is not readable page data', async () => {
+    const page = await pageWith('{ not json');
+    expect(page.meFromPage()).toBeUndefined();
+    expect(page.responseFromPage('/a', z.object({}))).toBeUndefined();
   });
 });

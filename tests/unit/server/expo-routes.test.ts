@@ -25,7 +25,7 @@ describe('pageRouter', () => {
     expect(route('/plants/p%201/leads/l2')).toEqual({
       file: '(app)/(tabs)/plants/[plantId]/leads/[leadId].tsx',
       params: { plantId: 'p 1', leadId: 'l2' },
-      assets: { js: ['/runtime.js', '/entry.js', '/layout.js', '/lead.js'], css: [], favicon: '/favicon.ico' },
+      assets: { js: ['/runtime.js', '/entry.js', '/layout.js', '/lead.js'], css: [] },
     });
     expect(route('/')?.file).toBe('(app)/(tabs)/index.tsx');
   });

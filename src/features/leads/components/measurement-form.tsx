@@ -1,5 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
@@ -9,8 +9,8 @@ import { Chip } from '@/components/chip';
 import { NumberField, parseNumber } from '@/components/number-field';
 import { Text } from '@/components/text';
 import { TextField } from '@/components/text-field';
-import { localToday } from '@/lib/dates';
 import { fromMm, STEP, toMm, type LengthUnit } from '@/lib/units';
+import { useToday } from '@/lib/use-today';
 import { measurementInputSchema, sheathStates, type Measurement, type MeasurementInput, type SheathState } from '@/shared/schemas/records';
 import { spacing } from '@/theme';
 import { SHEATH_LABELS } from '../../plants/components/lead-chip';
@@ -29,10 +29,10 @@ type FormValues = z.infer<typeof formSchema>;
 
 const FIELD_OF: Record<string, keyof FormValues> = { heightMm: 'height', bulbWidthMm: 'bulbWidth', leafCount: 'leafCount', rootTips: 'rootTips', date: 'date', sheath: 'sheath', note: 'note' };
 
-function initialValues(last: Measurement | null, units: LengthUnit): FormValues {
+function initialValues(last: Measurement | null, units: LengthUnit, today: string): FormValues {
   const text = (v: number | null | undefined) => (v === null || v === undefined ? '' : String(v));
   return {
-    date: localToday(),
+    date: today,
     height: last ? String(fromMm(last.heightMm, units)) : '',
     leafCount: text(last?.leafCount),
     rootTips: text(last?.rootTips),
@@ -59,10 +59,15 @@ export interface MeasurementFormProps {
 export function MeasurementForm({ last, units, onSave, saveLabel = 'Save measurement', testIDPrefix = 'measure' }: MeasurementFormProps) {
   const [formError, setFormError] = useState<string>();
   const [saved, setSaved] = useState(false);
-  const { control, handleSubmit, setError, reset, formState } = useForm<FormValues>({
+  // The page's date while the browser takes the server's page over, then the grower's own.
+  const today = useToday();
+  const { control, handleSubmit, setError, reset, formState, getFieldState, setValue } = useForm<FormValues>({
     resolver: zodResolver(formSchema),
-    defaultValues: initialValues(last, units),
+    defaultValues: initialValues(last, units, today),
   });
+  useEffect(() => {
+    if (!getFieldState('date').isDirty) setValue('date', today);
+  }, [today, getFieldState, setValue]);
 
   const submit = handleSubmit(async (values) => {
     setFormError(undefined);
