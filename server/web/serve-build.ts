@@ -186,7 +186,8 @@ export function serveWebBuild(app: Express, webRoot: string, ctx: Pick<AppContex
     // The path as a path: `//host/x` in the request line must not become a host.
     const url = new URL('http://page.invalid');
     url.pathname = req.path;
-    url.search = new URL(req.originalUrl, 'http://page.invalid').search;
+    const query = req.originalUrl.indexOf('?');
+    if (query >= 0) url.search = req.originalUrl.slice(query);
     const me = await signedIn(req, res);
     const collectionId = me ? currentCollection(req, me) : undefined;
     const answeredAt = Date.now();

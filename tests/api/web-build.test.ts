@@ -197,6 +197,8 @@ describe('serving the web build', () => {
     const page = await supertest(server.url).get('//evil.example/x?y=1');
     expect(page.status).toBe(200);
     expect(page.text).toContain('<div id="root" data-path="//evil.example/x">');
+    // One that no URL parser takes as an address is still a path, not a server error.
+    expect((await supertest(server.url).get('//[')).status).toBeLessThan(500);
   });
 
   it('writes a name that looks like markup so it cannot end the script element', async () => {
