@@ -1,6 +1,7 @@
 import type { z } from 'zod';
 import { BOOT_ELEMENT_ID, PAGE_DATA_GLOBAL } from '@/shared/boot';
 import { pageDataSchema, type Me, type PageData } from '@/shared/schemas/auth';
+import { request } from './client';
 
 /**
  * What the page was served with (see server/web/serve-build.ts): who is signed in, the
@@ -11,11 +12,17 @@ import { pageDataSchema, type Me, type PageData } from '@/shared/schemas/auth';
  */
 let fromPage: PageData | null | undefined;
 
+/** The server's handed-over data and its parsed form, so one render parses it once. */
+let handedOver: { from: unknown; data: PageData | null } | undefined;
+
 function pageData(): PageData | null {
   const handed = (globalThis as Record<string, unknown>)[PAGE_DATA_GLOBAL];
   if (handed !== undefined) {
-    const parsed = pageDataSchema.safeParse(handed);
-    return parsed.success ? parsed.data : null;
+    if (handedOver?.from !== handed) {
+      const parsed = pageDataSchema.safeParse(handed);
+      handedOver = { from: handed, data: parsed.success ? parsed.data : null };
+    }
+    return handedOver.data;
   }
   if (fromPage !== undefined) return fromPage;
   fromPage = null;
@@ -85,4 +92,16 @@ export function responseFromPage<S extends z.ZodType>(path: string, schema: S): 
  */
 export function forgetPageAnswers(): void {
   if (fromPage) delete fromPage.responses;
+}
+
+/**
+ * A first screen's query options for `path` (as passed to `request`): asked of the server, but
+ * started from the page's answer when it carries one, aged from when the server asked.
+ */
+export function fromPageOrServer<S extends z.ZodType>(path: string, schema: S) {
+  return {
+    queryFn: () => request(path, { schema }) as Promise<z.infer<S>>,
+    initialData: () => responseFromPage(path, schema),
+    initialDataUpdatedAt: answeredAtFromPage,
+  };
 }

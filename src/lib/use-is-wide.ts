@@ -2,9 +2,8 @@ import { useEffect, useSyncExternalStore } from 'react';
 import { Dimensions } from 'react-native';
 import { wideFromPage } from '@/api/page-data';
 import { WIDE_LAYOUT_COOKIE } from '@/shared/boot';
+import { rememberInCookie } from './cookie';
 import { WIDE_BREAKPOINT } from '@/theme';
-
-const A_YEAR_S = 365 * 24 * 3600;
 
 function subscribe(onChange: () => void): () => void {
   const subscription = Dimensions.addEventListener('change', onChange);
@@ -22,10 +21,9 @@ let remembered: boolean | undefined;
 
 /** Keeps the layout in a cookie, so the server draws the next page in it. */
 function rememberLayout(wide: boolean): void {
-  if (remembered === wide || typeof document === 'undefined') return;
+  if (remembered === wide) return;
   remembered = wide;
-  const secure = globalThis.location?.protocol === 'https:' ? '; secure' : '';
-  document.cookie = `${WIDE_LAYOUT_COOKIE}=${wide ? '1' : '0'}; path=/; max-age=${A_YEAR_S}; samesite=lax${secure}`;
+  rememberInCookie(WIDE_LAYOUT_COOKIE, wide ? '1' : '0');
 }
 
 /** True from the width where the tabs become a side rail and screens use two columns. */

@@ -1,7 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { coldNightsSchema } from '@/shared/schemas/cold-nights';
 import { request } from '../client';
-import { answeredAtFromPage, responseFromPage } from '../page-data';
+import { fromPageOrServer } from '../page-data';
 import { recordKeys } from './records';
 
 /** Under the records key: moving a plant, marking an area indoors or a new limit refreshes it. */
@@ -16,9 +16,7 @@ const COLD_NIGHTS_STALE_MS = 5 * 60 * 1000;
 export function useColdNightsQuery(collectionId: string) {
   return useQuery({
     queryKey: coldNightKeys.forCollection(collectionId),
-    queryFn: () => request(`/collections/${collectionId}/cold-nights`, { schema: coldNightsSchema }),
-    initialData: () => responseFromPage(`/collections/${collectionId}/cold-nights`, coldNightsSchema),
-    initialDataUpdatedAt: answeredAtFromPage,
+    ...fromPageOrServer(`/collections/${collectionId}/cold-nights`, coldNightsSchema),
     enabled: collectionId !== '',
     staleTime: COLD_NIGHTS_STALE_MS,
   });

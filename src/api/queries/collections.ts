@@ -3,7 +3,7 @@ import { z } from 'zod';
 import type { Role } from '@/shared/schemas/auth';
 import { collectionSchema, memberSchema, type UpdateCollectionInput } from '@/shared/schemas/collections';
 import { request } from '../client';
-import { answeredAtFromPage, responseFromPage } from '../page-data';
+import { fromPageOrServer } from '../page-data';
 import { sessionKeys } from './session';
 
 export const collectionKeys = {
@@ -15,9 +15,7 @@ export const collectionKeys = {
 export function useCollectionQuery(id: string | undefined) {
   return useQuery({
     queryKey: collectionKeys.detail(id ?? 'none'),
-    queryFn: () => request(`/collections/${id}`, { schema: collectionSchema }),
-    initialData: () => responseFromPage(`/collections/${id}`, collectionSchema),
-    initialDataUpdatedAt: answeredAtFromPage,
+    ...fromPageOrServer(`/collections/${id}`, collectionSchema),
     enabled: !!id,
   });
 }

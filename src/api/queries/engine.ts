@@ -8,7 +8,7 @@ import {
   plantTrendSchema,
 } from '@/shared/schemas/engine';
 import { request } from '../client';
-import { answeredAtFromPage, responseFromPage } from '../page-data';
+import { fromPageOrServer } from '../page-data';
 import { recordKeys } from './records';
 
 /** Forecasts live under the records key, so any record write refreshes them too. */
@@ -44,9 +44,7 @@ function query(params: object): string {
 export function useLeadForecastQuery(collectionId: string, leadId: string) {
   return useQuery({
     queryKey: engineKeys.forecast(collectionId, leadId),
-    queryFn: () => request(`${base(collectionId)}/leads/${leadId}/forecast`, { schema: leadForecastSchema }),
-    initialData: () => responseFromPage(`${base(collectionId)}/leads/${leadId}/forecast`, leadForecastSchema),
-    initialDataUpdatedAt: answeredAtFromPage,
+    ...fromPageOrServer(`${base(collectionId)}/leads/${leadId}/forecast`, leadForecastSchema),
   });
 }
 
@@ -60,9 +58,7 @@ export function usePlantTrendQuery(collectionId: string, plantId: string) {
 export function useAttentionQuery(collectionId: string, date?: string) {
   return useQuery({
     queryKey: engineKeys.attention(collectionId, date),
-    queryFn: () => request(`${base(collectionId)}/attention${query({ date })}`, { schema: attentionListSchema }),
-    initialData: () => responseFromPage(`${base(collectionId)}/attention${query({ date })}`, attentionListSchema),
-    initialDataUpdatedAt: answeredAtFromPage,
+    ...fromPageOrServer(`${base(collectionId)}/attention${query({ date })}`, attentionListSchema),
     enabled: !!collectionId,
   });
 }

@@ -17,7 +17,7 @@ import {
   type PlantInput,
 } from '@/shared/schemas/records';
 import { request } from '../client';
-import { answeredAtFromPage, responseFromPage } from '../page-data';
+import { fromPageOrServer } from '../page-data';
 
 export interface PlantFilters {
   q?: string;
@@ -73,9 +73,7 @@ export function usePlantQuery(collectionId: string, plantId: string) {
 export function useLeadQuery(collectionId: string, leadId: string | null | undefined) {
   return useQuery({
     queryKey: recordKeys.lead(collectionId, leadId ?? 'none'),
-    queryFn: () => request(`${base(collectionId)}/leads/${leadId}`, { schema: leadDetailSchema }),
-    initialData: () => responseFromPage(`${base(collectionId)}/leads/${leadId}`, leadDetailSchema),
-    initialDataUpdatedAt: answeredAtFromPage,
+    ...fromPageOrServer(`${base(collectionId)}/leads/${leadId}`, leadDetailSchema),
     enabled: !!leadId,
   });
 }

@@ -2,17 +2,10 @@ import { createContext, useCallback, useContext, useEffect, useMemo, useState, t
 import { CURRENT_COLLECTION_COOKIE } from '@/shared/boot';
 import type { CollectionSummary } from '@/shared/schemas/auth';
 import { collectionFromPage } from '@/api/page-data';
+import { rememberInCookie } from '@/lib/cookie';
 import { storage } from '@/lib/storage';
 
 const STORAGE_KEY = 'sympodia.currentCollection';
-const A_YEAR_S = 365 * 24 * 3600;
-
-/** The same choice in a cookie, so the server can start the chosen collection's first requests with the page. */
-function rememberInCookie(id: string): void {
-  if (typeof document === 'undefined') return;
-  const secure = globalThis.location?.protocol === 'https:' ? '; secure' : '';
-  document.cookie = `${CURRENT_COLLECTION_COOKIE}=${encodeURIComponent(id)}; path=/; max-age=${A_YEAR_S}; samesite=lax${secure}`;
-}
 
 interface CurrentCollection {
   collection: CollectionSummary | undefined;
@@ -23,7 +16,7 @@ interface CurrentCollection {
 /** Makes `id` the collection this browser opens next (after accepting an invitation, say). */
 export function rememberCollection(id: string): void {
   storage.set(STORAGE_KEY, id);
-  rememberInCookie(id);
+  rememberInCookie(CURRENT_COLLECTION_COOKIE, id);
 }
 
 const Context = createContext<CurrentCollection | null>(null);
@@ -41,10 +34,11 @@ export function CurrentCollectionProvider({ collections, children }: { collectio
     () => ({ collection: collections.find((c) => c.id === chosen) ?? collections[0], collections, select }),
     [collections, chosen, select],
   );
-  // A choice made before the cookie existed reaches the server from the next page on.
+  // The same choice in a cookie, so the server draws the next page in this collection (a choice
+  // made before the cookie existed reaches it from the next page on).
   const openedId = value.collection?.id;
   useEffect(() => {
-    if (openedId) rememberInCookie(openedId);
+    if (openedId) rememberInCookie(CURRENT_COLLECTION_COOKIE, openedId);
   }, [openedId]);
   return <Context.Provider value={value}>{children}</Context.Provider>;
 }
