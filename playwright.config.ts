@@ -29,6 +29,8 @@ export default defineConfig({
     launchOptions: chromium,
     trace: 'off',
     screenshot: 'only-on-failure',
+    // The browser runs in the server's time zone (a multi-date run sets TZ for both).
+    ...(process.env.TZ ? { timezoneId: process.env.TZ } : {}),
   },
   projects: [
     { name: 'phone', use: { viewport: { width: 390, height: 844 }, isMobile: false, hasTouch: true } },

@@ -1,16 +1,10 @@
 import AxeBuilder from '@axe-core/playwright';
-import type { Page } from '@playwright/test';
 import { currentCollectionId, signInAs } from './support/session';
 import { expect, keepScreenshot, test } from './support/fixtures';
-
-/** The fake forecast service's switch (/dev/weather, mounted only with the fake). */
-async function fakeWeather(page: Page, settings: { mode?: string; nightLows?: number[] | null }) {
-  const res = await page.request.post('/dev/weather', { data: settings });
-  expect(res.status()).toBe(200);
-}
+import { fakeWeather, resetFakeWeather } from './support/weather';
 
 test.afterEach(async ({ page }) => {
-  await fakeWeather(page, { mode: 'normal', nightLows: null });
+  await resetFakeWeather(page);
 });
 
 test('Today lists the outdoor plants to bring in tonight, each with its limit and the forecast low', async ({ page }, info) => {

@@ -1,5 +1,5 @@
 import type { Page } from '@playwright/test';
-import { expect, keepScreenshot, test } from './support/fixtures';
+import { expect, keepScreenshot, test, withRunClock } from './support/fixtures';
 import { currentCollectionId, signInAs } from './support/session';
 
 /**
@@ -70,7 +70,7 @@ test('Today, Plants, a Lead with its chart, and Calendar run under the CSP witho
 test('Collection → Sign out everywhere asks first, then ends every session', async ({ page, browser }, info) => {
   const messages = await watchPolicy(page);
   // A second device signed in as the same person.
-  const other = await browser.newContext();
+  const other = await withRunClock(await browser.newContext());
   const otherPage = await other.newPage();
   await signInAs(otherPage, 'viewer');
 

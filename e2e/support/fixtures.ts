@@ -1,6 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { test as base, expect, type Page } from '@playwright/test';
+import { test as base, expect, type BrowserContext, type Page } from '@playwright/test';
 
 const ARTIFACTS = path.join(__dirname, '..', 'artifacts');
 
@@ -11,6 +11,13 @@ const ARTIFACTS = path.join(__dirname, '..', 'artifacts');
  * answered 401 by design); a 5xx or a failed asset still fails the test.
  */
 export const test = base.extend<{ page: Page }>({
+  // A multi-date run (npm run test:dates) moves this runner's clock (scripts/dates/shift-clock.mjs);
+  // the browser's clock starts at the same moment, so the page, the server and the test agree on
+  // today. Time then passes as usual. A plain run leaves the browser's clock alone.
+  context: async ({ context }, use) => {
+    await withRunClock(context);
+    await use(context);
+  },
   page: async ({ page }, use) => {
     const problems: string[] = [];
     page.on('console', (message) => {
@@ -47,6 +54,15 @@ export const test = base.extend<{ page: Page }>({
     expect(problems, problems.join('\n')).toEqual([]);
   },
 });
+
+/**
+ * Starts a browser context's clock at the runner's own time in a multi-date run (a context a test
+ * makes itself needs this; the `context` fixture does it already). A plain run changes nothing.
+ */
+export async function withRunClock(context: BrowserContext): Promise<BrowserContext> {
+  if (process.env.SYMPODIA_CLOCK_OFFSET_MS) await context.clock.install({ time: Date.now() });
+  return context;
+}
 
 /** Saves a screenshot of the viewport as an artifact named after the screen and width. */
 export async function keepScreenshot(page: Page, name: string, project: string): Promise<void> {
