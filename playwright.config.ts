@@ -1,9 +1,19 @@
 import { defineConfig } from '@playwright/test';
 import { E2E_PORT } from './e2e/support/constants';
 
+/**
+ * What the browser sees of this process's environment. A multi-date run (scripts/dates/run.sh)
+ * moves the clock of every process through libfaketime, which Chromium does not survive (its
+ * zygote dies): the browser gets Playwright's clock instead (e2e/support/fixtures.ts).
+ */
+const browserEnv = Object.fromEntries(
+  Object.entries(process.env).filter(([name]) => name !== 'LD_PRELOAD' && !name.startsWith('FAKETIME')),
+) as Record<string, string>;
+
 /** Debian's Chromium; Playwright never downloads a browser of its own here. */
 const chromium = {
   executablePath: '/usr/bin/chromium',
+  env: browserEnv,
   args: [
     '--no-sandbox',
     '--disable-gpu',

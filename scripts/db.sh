@@ -2,7 +2,7 @@
 # The project's own PostgreSQL cluster on 127.0.0.1.
 #   scripts/db.sh start|stop|status [dev|test]
 # dev: port 54329, database "sympodia". test: port 54339, database "sympodia_test",
-# fsync off (throwaway data only). faults: port 54349, database "sympodia_faults", stopped and
+# fsync off (throwaway data only; TEST_PG_PORT moves it, for a second checkout testing at the same time). faults: port 54349, database "sympodia_faults", stopped and
 # started on purpose by scripts/faults/run.ts (never share it). With DATABASE_URL set, nothing is started: the
 # product uses that database instead.
 set -euo pipefail
@@ -13,7 +13,7 @@ root=$(cd "$(dirname "$0")/.." && pwd)
 
 case "$instance" in
   dev) port=54329; database=sympodia ;;
-  test) port=54339; database=sympodia_test ;;
+  test) port=${TEST_PG_PORT:-54339}; database=sympodia_test ;;
   faults) port=54349; database=sympodia_faults ;;
   *) echo "unknown instance: $instance (dev, test or faults)" >&2; exit 2 ;;
 esac

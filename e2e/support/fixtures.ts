@@ -11,9 +11,9 @@ const ARTIFACTS = path.join(__dirname, '..', 'artifacts');
  * answered 401 by design); a 5xx or a failed asset still fails the test.
  */
 export const test = base.extend<{ page: Page }>({
-  // A multi-date run (npm run test:dates) moves this runner's clock (scripts/dates/shift-clock.mjs);
-  // the browser's clock starts at the same moment, so the page, the server and the test agree on
-  // today. Time then passes as usual. A plain run leaves the browser's clock alone.
+  // A multi-date run (npm run test:dates) moves the clock of this runner, the server and
+  // PostgreSQL (libfaketime); the browser's clock starts at the same moment, so the page, the
+  // server and the test agree on today. Time then passes as usual. A plain run changes nothing.
   context: async ({ context }, use) => {
     await withRunClock(context);
     await use(context);
@@ -60,7 +60,7 @@ export const test = base.extend<{ page: Page }>({
  * makes itself needs this; the `context` fixture does it already). A plain run changes nothing.
  */
 export async function withRunClock(context: BrowserContext): Promise<BrowserContext> {
-  if (process.env.SYMPODIA_CLOCK_OFFSET_MS) await context.clock.install({ time: Date.now() });
+  if (process.env.FAKETIME) await context.clock.install({ time: Date.now() });
   return context;
 }
 

@@ -11,11 +11,10 @@ import { startFakeSmtp, type FakeSmtpServer } from '../../server/mail/fake-smtp'
 import { digestItems, digestPeriod } from '../../server/services/digest';
 import { cameraJpeg } from '../factories/photos';
 import { testDatabaseUrl, testDb } from './support/database';
-import { signIn, startServerProcess, type ServerProcess } from './support/processes';
+import { freePorts, signIn, startServerProcess, type ServerProcess } from './support/processes';
 
 // Two real server processes (as production runs them) on two loopback ports, sharing one
 // PostgreSQL database, one S3-compatible store (s3rver) and one SMTP server (the fake).
-const PORTS = [8808, 8809] as const;
 const BUCKET = 'sympodia-photos';
 
 let s3: S3rver;
@@ -57,7 +56,8 @@ beforeAll(async () => {
     DIGEST_FIRST_CHECK_SECONDS: '6',
   });
   // Started together, so their first digest checks fall at (nearly) the same moment.
-  [a, b] = await Promise.all(PORTS.map((port) => startServerProcess({ port, env: env(port), startTimeoutMs: 40_000 })));
+  const ports = await freePorts(2);
+  [a, b] = await Promise.all(ports.map((port) => startServerProcess({ port, env: env(port), startTimeoutMs: 40_000 })));
 }, 90_000);
 
 afterAll(async () => {

@@ -1,7 +1,22 @@
 import { spawn, type ChildProcess } from 'node:child_process';
+import net from 'node:net';
 import path from 'node:path';
 
 export const ROOT = path.join(__dirname, '..', '..', '..');
+
+/** `count` different loopback ports nothing listens on now (the system's choice), for server processes to take. */
+export async function freePorts(count: number): Promise<number[]> {
+  const probes = await Promise.all(
+    Array.from({ length: count }, () => new Promise<net.Server>((resolve, reject) => {
+      const probe = net.createServer();
+      probe.once('error', reject);
+      probe.listen(0, '127.0.0.1', () => resolve(probe));
+    })),
+  );
+  const ports = probes.map((probe) => (probe.address() as net.AddressInfo).port);
+  await Promise.all(probes.map((probe) => new Promise((resolve) => probe.close(resolve))));
+  return ports;
+}
 
 export interface ServerProcess {
   url: string;
