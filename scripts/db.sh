@@ -14,7 +14,7 @@ root=$(cd "$(dirname "$0")/.." && pwd)
 case "$instance" in
   dev) port=54329; database=sympodia ;;
   test) port=${TEST_PG_PORT:-54339}; database=sympodia_test ;;
-  faults) port=54349; database=sympodia_faults ;;
+  faults) port=${FAULTS_PG_PORT:-54349}; database=sympodia_faults ;;
   *) echo "unknown instance: $instance (dev, test or faults)" >&2; exit 2 ;;
 esac
 
