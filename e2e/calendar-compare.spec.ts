@@ -1,6 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
 import type { Page } from '@playwright/test';
 import { DEMO_SCENARIO } from '../db/seed/generate';
+import { differenceSentence } from '../src/features/compare/summary';
 import { currentCollectionId, signInAs } from './support/session';
 import { expect, keepScreenshot, test } from './support/fixtures';
 
@@ -93,7 +94,11 @@ test('Compare on the demo division family shows the parent and both divisions', 
     await expect(page.getByTestId(`compare-group-${tag}`).getByTestId('compare-group-plants')).toContainText(tag);
   }
   await expect(page.getByTestId('compare-family-SH-012')).toHaveAttribute('aria-pressed', 'true');
-  await expect(page.getByTestId('compare-sentence')).toContainText(/p [=<] \d/);
+  // The sentence is the engine's answer in words, whatever the date: early in a season the
+  // divisions' newest leads have not matured, so there may be too few seasons for a test yet.
+  const engine = await (await page.request.get(`/api/collections/${collectionId}/compare?by=family&plantId=${parent.id}`)).json();
+  await expect(page.getByTestId('compare-sentence')).toHaveText(differenceSentence(engine));
+  if (engine.difference?.welch || engine.difference?.rank) await expect(page.getByTestId('compare-sentence')).toContainText(/p [=<] \d/);
   await expect(page.getByTestId('compare-warnings')).toBeVisible();
   await keepScreenshot(page, 'compare-family', info.project.name);
   await page.getByTestId('compare-groups').scrollIntoViewIfNeeded();

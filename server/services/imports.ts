@@ -186,7 +186,7 @@ function distinctTags(reader: ImportReader): string[] {
 
 async function plan(db: Executor, collectionId: string, reader: ImportReader, options: ImportOptions): Promise<{ result: ImportPlan; existing: ExistingRecords }> {
   const existing = await loadExisting(db, collectionId, distinctTags(reader));
-  const result = planImport(reader, options, existing, { seasonStartMonth: await seasonStartMonth(db, collectionId), latestDate: latestAllowedDate() });
+  const result = planImport(reader, options, existing, { seasonStartMonth: await seasonStartMonth(db, collectionId), latestDate: latestAllowedDate(), today: new Date().toISOString().slice(0, 10) });
   return { result, existing };
 }
 

@@ -2,7 +2,8 @@ import AdmZip from 'adm-zip';
 import { asc, eq } from 'drizzle-orm';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { bloomRecords, leads, measurements, plants } from '../../db/schema';
+import { seasonOf } from '@/lib/dates';
+import { bloomRecords, collections, leads, measurements, plants } from '../../db/schema';
 import { generateCollection } from '../../db/seed/generate';
 import { insertGenerated } from '../../db/seed/insert';
 import { daysAgo, insertLead, insertMeasurement, insertPlant } from '../factories/records';
@@ -78,7 +79,8 @@ describe('records.csv from the export, into the spreadsheet import', () => {
     await testDb().transaction((tx) => insertGenerated(tx, w.collectionId, generated, { createdBy: w.people.grower.id }));
     // A tag and a label the export must escape ("'-A1"), which the import must read back as written.
     const odd = await insertPlant(testDb(), w.collectionId, { tag: '-A1', epithet: 'Quoted Dawn', clonalName: 'Plus' });
-    const oddLead = await insertLead(testDb(), odd, { label: '=B', season: 2026, firstSeen: daysAgo(40) });
+    const [{ sourceStart }] = await testDb().select({ sourceStart: collections.seasonStartMonth }).from(collections).where(eq(collections.id, w.collectionId));
+    const oddLead = await insertLead(testDb(), odd, { label: '=B', season: seasonOf(daysAgo(40), sourceStart), firstSeen: daysAgo(40) });
     await insertMeasurement(testDb(), oddLead, { measuredOn: daysAgo(20), heightMm: 33.5 });
     const original = await records(w.collectionId);
     expect(original.measurements.length).toBeGreaterThan(100);
@@ -132,14 +134,16 @@ describe('records.csv from the export, into the spreadsheet import', () => {
     expect(copy.measurements).toEqual(original.measurements);
     expect(copy.blooms).toEqual(original.blooms);
 
-    // Leads of earlier growth years come in finished, this year's as growing.
+    // Leads of earlier growth years come in finished, the current growth year's (today's, by the
+    // collection's season start) as growing.
     const statuses = await testDb()
       .select({ season: leads.season, status: leads.status })
       .from(leads)
       .where(eq(leads.collectionId, target));
-    const seasons = statuses.map((s) => s.season);
-    const current = Math.max(...seasons);
+    const [{ startMonth }] = await testDb().select({ startMonth: collections.seasonStartMonth }).from(collections).where(eq(collections.id, target));
+    const current = seasonOf(daysAgo(0), startMonth);
     expect(statuses.filter((s) => s.season < current).every((s) => s.status === 'mature')).toBe(true);
-    expect(statuses.filter((s) => s.season === current).every((s) => s.status === 'growing')).toBe(true);
+    expect(statuses.filter((s) => s.season >= current).every((s) => s.status === 'growing')).toBe(true);
+    expect(statuses.some((s) => s.season < current)).toBe(true);
   });
 });

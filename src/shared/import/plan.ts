@@ -244,6 +244,11 @@ export interface PlanContext {
   seasonStartMonth: number;
   /** The last date accepted (today plus the tolerance for growers east of UTC). */
   latestDate: string;
+  /**
+   * Today (the server's, UTC): the growth year it falls in is the current one, whose leads come in
+   * growing. Not `latestDate`, which on a season's last day already lies in the next season.
+   */
+  today: string;
   /** How many rows the preview shows (default 10). */
   previewRows?: number;
 }
@@ -297,7 +302,7 @@ interface RowValues {
 export function planImport(reader: ImportReader, options: ImportOptions, existing: ExistingRecords, context: PlanContext): ImportPlan {
   const issues: ImportIssue[] = [];
   const latestYear = Number(context.latestDate.slice(0, 4));
-  const currentSeason = seasonOf(context.latestDate, context.seasonStartMonth);
+  const currentSeason = seasonOf(context.today, context.seasonStartMonth);
   const statusOf = (season: number): LeadDraft['status'] => (season < currentSeason ? 'mature' : 'growing');
   const columnOf = (field: ImportField) => options.mapping[field] ?? field;
   const issue = (row: number, field: ImportField, reason: string) => issues.push({ row, column: columnOf(field), reason });

@@ -7,7 +7,7 @@ import { type ExistingRecords, ImportReader, type ImportOptions, mappingProblems
 
 const fixture = (name: string) => readFileSync(join(__dirname, '..', '..', 'fixtures', 'import', name), 'utf8');
 const NOTHING: ExistingRecords = { plants: [], leads: [], measurements: [], blooms: [] };
-const CONTEXT = { seasonStartMonth: 3, latestDate: '2026-12-03' };
+const CONTEXT = { seasonStartMonth: 3, latestDate: '2026-12-03', today: '2026-12-02' };
 
 function read(csv: string, options: Partial<ImportOptions> = {}) {
   const [headers, ...rows] = Papa.parse<string[]>(csv, { header: false, skipEmptyLines: false }).data;
@@ -221,6 +221,17 @@ describe('choices and row rules', () => {
       // January 2026 is still growth year 2025 when the year starts in March.
       ['2025-B', 2025, 'mature'],
       ['2026-A', 2026, 'growing'],
+    ]);
+  });
+
+  it("on a growth year's last day, its leads still come in growing (the tolerance day ahead is the next year)", () => {
+    // Today 28 February 2027, the last day of growth year 2026 when the year starts in March; the
+    // latest date accepted is already 1 March, a day of growth year 2027.
+    const { reader, options } = read('tag,genus,epithet,lead,date,height_mm\nB,C.,G,2026-A,2026-04-01,35\nB,C.,G,2025-A,2025-04-01,40\n');
+    const plan = planImport(reader, options, NOTHING, { seasonStartMonth: 3, latestDate: '2027-03-01', today: '2027-02-28' });
+    expect(plan.leads.map((l) => [l.label, l.status])).toEqual([
+      ['2026-A', 'growing'],
+      ['2025-A', 'mature'],
     ]);
   });
 
