@@ -18,12 +18,14 @@ export class HttpError extends Error {
 export const notFound = (what = 'That record') => new HttpError(404, 'not_found', `${what} was not found`);
 
 /** A save of a stale copy (409): the body carries the record as it now stands (staleBodySchema). */
+/** A 409 that carries the stored record (`current`): a stale version, or a record already there. */
 export class StaleError extends HttpError {
   constructor(
     readonly current: unknown,
     message = 'Someone else saved a newer version; review it and save again',
+    code = 'stale',
   ) {
-    super(409, 'stale', message);
+    super(409, code, message);
   }
 }
 

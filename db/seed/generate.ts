@@ -283,6 +283,18 @@ interface GenusProfile {
   rootTips: Range;
 }
 
+/**
+ * How the generated collections vary, written down so that the self-check (`npm run bench`)
+ * measures the engine against the generator and nobody tunes the generator to the engine. Keep it
+ * true when the generator changes.
+ */
+export const NOISE_MODEL =
+  'per plant: base size, logistic midpoint and scale uniform in the genus profile, a size trend per season; ' +
+  'per lead: size × exp(N(0, 0.04)) (0.01 for the scripted demo plants), midpoint and scale × exp(N(0, 0.05)), first seen the plant\'s usual day ± 12 days; ' +
+  'per look: height on the curve + N(0, 0.6 + 1% of the height) mm, every 14 ± 1 days; ' +
+  'bloom: maturity → buds and buds → first flower uniform in the genus profile\'s ranges, independent of size and weather; ' +
+  '12% of mature leads of a sheathed genus stay empty, 12% others do not flower, 3% abort';
+
 const GENUS_PROFILES = {
   // Cattleya-alliance hybrids: mature pseudobulbs ~120–300 mm (invented for the demo).
   cattleya: {

@@ -1,10 +1,10 @@
 import { Router, type Request, type Response } from 'express';
 import type { z } from 'zod';
-import { median } from 'simple-statistics';
 import {
   addDays,
   attentionList,
   backtestBloomForecasts,
+  summarizeBacktest,
   compareGroups,
   daysBetween,
   earlierLeadShapes,
@@ -20,8 +20,11 @@ import {
   type BloomHistory,
   type ComparePlant,
   type IsoDate,
+  plantSelfCheck,
+  storyOf,
   type LeadForecast,
   type LeadShape,
+  type LeadStory,
 } from '@/domain';
 import {
   attentionListSchema,
@@ -33,6 +36,7 @@ import {
   compareQuerySchema,
   DEFAULT_CALENDAR_SPAN_DAYS,
   leadForecastSchema,
+  leadStoriesSchema,
   MAX_CALENDAR_SPAN_DAYS,
   plantTrendSchema,
   type AttentionListResponse,
@@ -101,15 +105,34 @@ function shapesOf(p: EnginePlant, today: IsoDate, shapes?: ShapeCache): (season:
   };
 }
 
-/** Forecasts of every current lead of the data, as the lead page would show them. */
-export function currentForecasts(data: EngineData, today: IsoDate, shapeCache?: ShapeCache): Array<{ p: EnginePlant; h: BloomHistory; f: LeadForecast }> {
-  const out: Array<{ p: EnginePlant; h: BloomHistory; f: LeadForecast }> = [];
+/** A current lead's forecast with its story, as every screen shows it. */
+export interface CurrentForecast {
+  p: EnginePlant;
+  h: BloomHistory;
+  f: LeadForecast;
+  story: LeadStory;
+}
+
+/** Forecasts and stories of every current lead of the data, as the lead page would show them. */
+export function currentForecasts(data: EngineData, today: IsoDate, shapeCache?: ShapeCache): CurrentForecast[] {
+  const out: CurrentForecast[] = [];
   for (const p of data.plants) {
     if (!p.active) continue;
     const shapes = shapesOf(p, today, shapeCache);
-    for (const h of currentLeads(p, today)) {
-      const f = forecastLead({ plant: p.plant, leads: p.leads, leadId: h.lead.id, today, priorShapes: shapes(h.lead.season) });
-      if (f) out.push({ p, h, f });
+    const leads = currentLeads(p, today);
+    if (leads.length === 0) continue;
+    const check = plantSelfCheck(p.plant, p.leads);
+    for (const h of leads) {
+      const f = forecastLead({
+        plant: p.plant,
+        leads: p.leads,
+        leadId: h.lead.id,
+        today,
+        priorShapes: shapes(h.lead.season),
+        seasonStartMonth: data.seasonStartMonth,
+        heldOutErrors: check.heldOutErrors,
+      });
+      if (f) out.push({ p, h, f, story: storyOf(h, f, today, data.units, check) });
     }
   }
   return out;
@@ -126,16 +149,7 @@ export function collectionBacktest(data: EngineData): BacktestResponse {
     const own = new Set(p.ownLeads.map((h) => h.lead.id));
     for (const row of backtestBloomForecasts([{ plant: p.plant, leads: p.leads }]).rows) if (own.has(row.leadId)) rows.push(row);
   }
-  const paired = rows.filter((r) => r.naiveErrorDays !== null);
-  const naiveErrors = paired.map((r) => r.naiveErrorDays!);
-  return {
-    n: rows.length,
-    medianAbsErrorDays: rows.length ? median(rows.map((r) => r.errorDays)) : null,
-    shareInside80: rows.length ? rows.filter((r) => r.inside80).length / rows.length : null,
-    naive: { n: paired.length, medianAbsErrorDays: naiveErrors.length ? median(naiveErrors) : null },
-    beatsNaive: paired.length ? median(paired.map((r) => r.errorDays)) < median(naiveErrors) : null,
-    rows,
-  };
+  return summarizeBacktest(rows);
 }
 
 /**
@@ -227,7 +241,7 @@ export function bloomCalendar(
 ): BloomCalendarResponse {
   const windows: BloomCalendarResponse['windows'] = [];
   const inFlower: NonNullable<BloomCalendarResponse['inFlowerOn']> = [];
-  for (const { p, h, f } of currentForecasts(data, today, shapeCache)) {
+  for (const { p, h, f, story } of currentForecasts(data, today, shapeCache)) {
     const span = flowerSpan(f);
     if (!span || !f.bloom.firstOpen || f.bloom.stage === 'lost') continue;
     const ref = { plantId: p.plant.id, leadId: h.lead.id, plantTag: p.tag, leadLabel: h.lead.label };
@@ -241,6 +255,7 @@ export function bloomCalendar(
         span,
         chance: f.bloom.chance,
         expectedFlowers: f.bloom.expectedFlowers.count,
+        story,
       });
     }
     if (on && span.start <= on && on <= span.end) {
@@ -332,6 +347,7 @@ export function attentionItems(data: EngineData, date: IsoDate, shapeCache?: Sha
       return { plant: p.plant, leads: p.leads, priorShapes: season === null ? undefined : shapeCache!.get(p, season, date) };
     }),
     date,
+    { seasonStartMonth: data.seasonStartMonth, units: data.units },
   )
     .filter((item) => data.leadById.get(item.target.leadId)?.plantId === item.target.plantId)
     .map((item) => ({
@@ -342,6 +358,7 @@ export function attentionItems(data: EngineData, date: IsoDate, shapeCache?: Sha
       flag: item.flag ?? null,
       plantTag: data.plantById.get(item.target.plantId)!.tag,
       leadLabel: data.leadById.get(item.target.leadId)!.history.lead.label,
+      story: item.story,
     }));
 }
 
@@ -384,8 +401,16 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
     const own = p.ownLeads.find((h) => h.lead.id === leadId);
     if (!own) throw notFound('That lead');
     const { lead } = own;
-    const f = forecastLead({ plant: p.plant, leads: p.leads, leadId, today, priorShapes: shapeCache.get(p, lead.season, today) })!;
-    const { rows: _rows, ...trust } = backtestBloomForecasts([{ plant: p.plant, leads: p.leads }]);
+    const check = plantSelfCheck(p.plant, p.leads);
+    const f = forecastLead({
+      plant: p.plant,
+      leads: p.leads,
+      leadId,
+      today,
+      priorShapes: shapeCache.get(p, lead.season, today),
+      seasonStartMonth: loaded.data.seasonStartMonth,
+      heldOutErrors: check.heldOutErrors,
+    })!;
     res.json(
       checked(leadForecastSchema, {
         today,
@@ -394,7 +419,8 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
         priorYears: f.priorYears,
         flags: f.flags,
         bloom: f.bloom,
-        trust,
+        story: storyOf(own, f, today, loaded.data.units, check),
+        trust: check.figures,
       }),
     );
   });
@@ -425,6 +451,17 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
     const on = query.on ?? null;
     const body = await collectionAnswer(res.locals.membership!.collectionId, `calendar|${today}|${from}|${to}|${on}`, (data) =>
       checked(bloomCalendarSchema, bloomCalendar(data, today, from, to, on, shapeCache)),
+    );
+    sendJson(req, res, body!);
+  });
+
+  router.get(`${base}/lead-stories`, viewer, async (req, res) => {
+    const today = todayUtc();
+    const body = await collectionAnswer(res.locals.membership!.collectionId, `stories|${today}`, (data) =>
+      checked(leadStoriesSchema, {
+        today,
+        stories: currentForecasts(data, today, shapeCache).map(({ p, h, story }) => ({ plantId: p.plant.id, leadId: h.lead.id, story })),
+      }),
     );
     sendJson(req, res, body!);
   });

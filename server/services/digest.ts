@@ -1,6 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import { and, asc, eq, sql } from 'drizzle-orm';
 import type { Logger } from 'pino';
+import { formatDate } from '@/domain/words';
 import type { AttentionListResponse } from '@/shared/schemas/engine';
 import type { Database } from '../../db/client';
 import { collections, digestRuns, digestSubscriptions, memberships, users } from '../../db/schema';
@@ -81,8 +82,10 @@ export async function collectionNameForKey(db: Database, key: string): Promise<s
   return row?.name ?? null;
 }
 
+/** One item in the app's own words: the lead's story (as on Today), dates as the app writes them. */
 function describe(item: DigestItem): string {
-  return `${item.plantTag}, lead ${item.leadLabel}: ${item.reason}${item.date ? ` (${item.date})` : ''}`;
+  const since = (item.kind === 'stalled' || item.kind === 'aborted') && item.date ? ` (since ${formatDate(item.date)})` : '';
+  return `${item.plantTag}, lead ${item.leadLabel} (${item.story.chip.label}): ${item.reason}${since}`;
 }
 
 const nightLabel = (cold: Extract<ColdNights, { status: 'ok' }>, date: string) => `${date === cold.nights[0]?.date ? 'Tonight' : 'Night of'} ${date}`;
@@ -118,7 +121,7 @@ export function digestMail(input: { collectionName: string; displayName: string;
   const text = [
     `Hello ${input.displayName},`,
     '',
-    `This week in ${input.collectionName} (as of ${input.today}), ${input.items.length} lead${input.items.length === 1 ? '' : 's'} need a look${input.items.length === 0 ? '' : ':'}`,
+    `This week in ${input.collectionName} (as of ${formatDate(input.today)}), ${input.items.length} lead${input.items.length === 1 ? '' : 's'} need a look${input.items.length === 0 ? '' : ':'}`,
     ...coldNightLines(input.coldNights),
     ...kinds.flatMap((kind) => ['', `${SECTION_TITLES[kind]}:`, ...input.items.filter((i) => i.kind === kind).map((i) => `- ${describe(i)}`)]),
     '',
@@ -127,7 +130,7 @@ export function digestMail(input: { collectionName: string; displayName: string;
     `Stop these weekly mails for this collection: ${input.unsubscribeUrl}`,
   ].join('\n');
   const html = `<p>Hello ${escapeHtml(input.displayName)},</p>
-<p>This week in <strong>${escapeHtml(input.collectionName)}</strong> (as of ${escapeHtml(input.today)}), ${input.items.length} lead${input.items.length === 1 ? '' : 's'} need a look${input.items.length === 0 ? '' : ':'}</p>
+<p>This week in <strong>${escapeHtml(input.collectionName)}</strong> (as of ${escapeHtml(formatDate(input.today))}), ${input.items.length} lead${input.items.length === 1 ? '' : 's'} need a look${input.items.length === 0 ? '' : ':'}</p>
 ${coldNightHtml(input.coldNights)}
 ${kinds
   .map(

@@ -1,8 +1,9 @@
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
+import type { LengthUnit } from '@/lib/units';
 import { earlierLeadShapes, genusDefaultsFor, type BloomHistory, type BloomRecord, type IsoDate, type Lead, type LeadShape, type Measurement, type Plant } from '@/domain';
-import { areas, bloomRecords, leads, measurements, plants } from '../../db/schema';
+import { areas, bloomRecords, collections, leads, measurements, plants } from '../../db/schema';
 import type { Executor } from './records-support';
 
 /*
@@ -46,6 +47,10 @@ export interface EnginePlant {
 }
 
 export interface EngineData {
+  /** The month the collection's growth year starts (1–12): it says which season is the current one. */
+  seasonStartMonth: number;
+  /** The unit the collection shows lengths in: the stories are written in it. */
+  units: LengthUnit;
   plants: EnginePlant[];
   plantById: Map<string, EnginePlant>;
   /** Every lead of the data by id, with the plant that owns it. */
@@ -105,7 +110,7 @@ const byLeadOrder = (a: BloomHistory, b: BloomHistory) =>
  * come out sorted by date within each lead whatever the row order. A parent outside `rows`
  * (say, in another collection) contributes nothing.
  */
-export function buildEngineData(rows: EngineRows): EngineData {
+export function buildEngineData(rows: EngineRows, settings: CollectionEngineSettings = DEFAULT_ENGINE_SETTINGS): EngineData {
   const msByLead = new Map<string, Measurement[]>();
   for (const r of rows.measurements) {
     const list = msByLead.get(r.leadId);
@@ -146,7 +151,7 @@ export function buildEngineData(rows: EngineRows): EngineData {
     const leadsWithHistory = inherited.length ? [...inherited, ...ownLeads].sort(byLeadOrder) : ownLeads;
     return { plant: toDomainPlant(p), tag: p.tag, ownLeads, leads: leadsWithHistory, active: !p.historyOnly && !p.givenAwayOn };
   });
-  return { plants: plantsOut, plantById: new Map(plantsOut.map((p) => [p.plant.id, p])), leadById };
+  return { ...settings, plants: plantsOut, plantById: new Map(plantsOut.map((p) => [p.plant.id, p])), leadById };
 }
 
 const plantColumns = {
@@ -190,9 +195,26 @@ const bloomColumns = {
   spikeCount: bloomRecords.spikeCount,
 };
 
-/** Everything the engine needs for a whole collection: four queries, run together. */
+export interface CollectionEngineSettings {
+  seasonStartMonth: number;
+  units: LengthUnit;
+}
+
+/** The schema's defaults, for data built without a collection row (the benchmark's). */
+export const DEFAULT_ENGINE_SETTINGS: CollectionEngineSettings = { seasonStartMonth: 3, units: 'mm' };
+
+async function engineSettingsOf(db: Executor, collectionId: string): Promise<CollectionEngineSettings> {
+  const [row] = await db
+    .select({ seasonStartMonth: collections.seasonStartMonth, units: collections.units })
+    .from(collections)
+    .where(eq(collections.id, collectionId))
+    .limit(1);
+  return row ?? DEFAULT_ENGINE_SETTINGS;
+}
+
+/** Everything the engine needs for a whole collection: five queries, run together. */
 export async function loadCollectionEngineData(db: Executor, collectionId: string): Promise<EngineData> {
-  const [plantRows, leadRows, measurementRows, bloomRows] = await Promise.all([
+  const [plantRows, leadRows, measurementRows, bloomRows, settings] = await Promise.all([
     db.select(plantColumns).from(plants).where(eq(plants.collectionId, collectionId)).orderBy(asc(plants.tag)),
     db
       .select(leadColumns)
@@ -205,8 +227,9 @@ export async function loadCollectionEngineData(db: Executor, collectionId: strin
       .where(eq(measurements.collectionId, collectionId))
       .orderBy(asc(measurements.leadId), asc(measurements.measuredOn), asc(measurements.id)),
     db.select(bloomColumns).from(bloomRecords).where(eq(bloomRecords.collectionId, collectionId)).orderBy(asc(bloomRecords.leadId)),
+    engineSettingsOf(db, collectionId),
   ]);
-  return buildEngineData({ plants: plantRows, leads: leadRows, measurements: measurementRows, blooms: bloomRows });
+  return buildEngineData({ plants: plantRows, leads: leadRows, measurements: measurementRows, blooms: bloomRows }, settings);
 }
 
 /** The plant owning `leadId` in the collection, or null (also for another collection's lead). */
@@ -236,7 +259,7 @@ export async function loadPlantEngineData(db: Executor, collectionId: string, pl
   }
   const ids = lineage.map((p) => p.id);
   const leadsOfLineage = and(eq(leads.collectionId, collectionId), inArray(leads.plantId, ids));
-  const [leadRows, measurementRows, bloomRows] = await Promise.all([
+  const [leadRows, measurementRows, bloomRows, settings] = await Promise.all([
     db.select(leadColumns).from(leads).where(leadsOfLineage).orderBy(asc(leads.plantId), asc(leads.season), asc(leads.firstSeen), asc(leads.label)),
     db
       .select(measurementColumns)
@@ -250,8 +273,9 @@ export async function loadPlantEngineData(db: Executor, collectionId: string, pl
       .innerJoin(leads, eq(leads.id, bloomRecords.leadId))
       .where(and(eq(bloomRecords.collectionId, collectionId), leadsOfLineage))
       .orderBy(asc(bloomRecords.leadId)),
+    engineSettingsOf(db, collectionId),
   ]);
-  const data = buildEngineData({ plants: lineage, leads: leadRows, measurements: measurementRows, blooms: bloomRows });
+  const data = buildEngineData({ plants: lineage, leads: leadRows, measurements: measurementRows, blooms: bloomRows }, settings);
   return { data, plant: data.plantById.get(plantId)! };
 }
 
@@ -270,13 +294,14 @@ export async function areaNames(db: Executor, collectionId: string): Promise<Map
 export async function engineFingerprint(db: Executor, collectionId: string): Promise<string> {
   const part = (table: string) =>
     sql.raw(`(select count(*) || ':' || coalesce(max(updated_at)::text, '') || ':' || coalesce(sum(version), 0) from ${table} where collection_id = `);
-  const [row] = await db.execute<{ p: string; l: string; m: string; b: string; a: string }>(sql`
+  const [row] = await db.execute<{ p: string; l: string; m: string; b: string; a: string; s: string | null }>(sql`
     select ${part('plants')}${collectionId}) as p,
            ${part('leads')}${collectionId}) as l,
            ${part('measurements')}${collectionId}) as m,
            ${part('bloom_records')}${collectionId}) as b,
-           ${part('areas')}${collectionId}) as a`);
-  return `${row.p}|${row.l}|${row.m}|${row.b}|${row.a}`;
+           ${part('areas')}${collectionId}) as a,
+           (select season_start_month || ':' || units from collections where id = ${collectionId}) as s`);
+  return `${row.p}|${row.l}|${row.m}|${row.b}|${row.a}|${row.s}`;
 }
 
 /** How long a collection's fingerprint is trusted without asking the database again. */

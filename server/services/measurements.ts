@@ -1,4 +1,4 @@
-import { and, asc, eq, lte, sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import type { z } from 'zod';
 import type { Role } from '@/shared/schemas/auth';
 import type {
@@ -10,10 +10,11 @@ import type {
   updateMeasurementInputSchema,
 } from '@/shared/schemas/records';
 import type { Database } from '../../db/client';
-import { bloomRecords, leads, measurements } from '../../db/schema';
+import { flowersFromSheath, genusDefaultsFor } from '@/domain';
+import { bloomRecords, leads, measurements, plants } from '../../db/schema';
 import { fieldError, HttpError, notFound, StaleError } from '../errors';
 import { requireLead } from './leads';
-import { latestMeasurementOrder, toBloom, toMeasurement } from './records-read';
+import { toBloom, toMeasurement } from './records-read';
 import { assertNotBeforeFirstSeen, assertNotFuture, assertWritablePlant, type Executor } from './records-support';
 
 type MeasurementInput = z.infer<typeof measurementInputSchema>;
@@ -52,7 +53,7 @@ async function byClientKey(db: Executor, collectionId: string, leadId: string, c
  * meet the unique index; ON CONFLICT DO NOTHING lets the loser read the winner's row.
  */
 async function insertOnce(
-  db: Database,
+  db: Executor,
   member: Member,
   leadId: string,
   values: Omit<typeof measurements.$inferInsert, 'collectionId' | 'leadId' | 'createdBy'>,
@@ -80,13 +81,34 @@ export async function recordMeasurement(db: Database, member: Member, leadId: st
   }
   assertMeasurementDate(input.date, lead.firstSeen);
   const { date, ...rest } = input;
-  return insertOnce(db, member, lead.id, { ...rest, measuredOn: date, clientKey: input.clientKey ?? null });
+  return db.transaction(async (tx) => {
+    await refuseSecondOnDate(tx, lead, date);
+    return insertOnce(tx, member, lead.id, { ...rest, measuredOn: date, clientKey: input.clientKey ?? null });
+  });
 }
 
 /**
- * One tap on the Lead screen: a measurement on `date` with the new sheath state, carrying
- * forward the sizes of the latest measurement on or before that date (or, when the tap is
- * dated before every measurement, the earliest one).
+ * One look per lead and day: a second measurement on a date that has one is refused with 409
+ * `measurement_exists` and the stored one (to edit instead). Writers of one lead take turns on a
+ * transaction lock, so two saves racing for the same day cannot both land.
+ */
+async function refuseSecondOnDate(tx: Executor, lead: { id: string; label: string }, date: string, except?: string) {
+  await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`measurement-day:${lead.id}`}))`);
+  const [existing] = await tx
+    .select()
+    .from(measurements)
+    .where(and(eq(measurements.leadId, lead.id), eq(measurements.measuredOn, date)))
+    .limit(2);
+  if (existing && existing.id !== except) {
+    throw new StaleError(toMeasurement(existing), `Lead ${lead.label} already has a measurement on ${date}; edit that one instead`, 'measurement_exists');
+  }
+}
+
+/**
+ * A sheath mark from the Lead screen. On a day that already has a look, the mark is that look's
+ * sheath (an edit of it); otherwise it is a new look, which needs the height the grower reads off
+ * the bulb that day — no height is ever carried forward, since an invented one would flatten the
+ * growth curve. A genus whose flowers do not come from a sheath takes no sheath mark.
  */
 export async function markSheath(db: Database, member: Member, leadId: string, input: z.infer<typeof sheathMarkInputSchema>): Promise<Recorded> {
   const lead = await requireLead(db, member.collectionId, leadId);
@@ -96,24 +118,35 @@ export async function markSheath(db: Database, member: Member, leadId: string, i
     if (stored) return stored;
   }
   assertMeasurementDate(input.date, lead.firstSeen);
-  const [before] = await db
-    .select()
-    .from(measurements)
-    .where(and(eq(measurements.leadId, lead.id), lte(measurements.measuredOn, input.date)))
-    .orderBy(...latestMeasurementOrder)
-    .limit(1);
-  const [base] = before
-    ? [before]
-    : await db.select().from(measurements).where(eq(measurements.leadId, lead.id)).orderBy(asc(measurements.measuredOn)).limit(1);
-  if (!base) throw fieldError('sheath', 'Record a height first: marking the sheath carries the last height forward');
-  return insertOnce(db, member, lead.id, {
-    measuredOn: input.date,
-    heightMm: base.heightMm,
-    leafCount: base.leafCount,
-    rootTips: base.rootTips,
-    bulbWidthMm: base.bulbWidthMm,
-    sheath: input.sheath,
-    clientKey: input.clientKey ?? null,
+  const [plant] = await db.select({ genus: plants.genus }).from(plants).where(eq(plants.id, lead.plantId)).limit(1);
+  const genus = genusDefaultsFor(plant?.genus);
+  if (!flowersFromSheath(genus) && input.sheath !== 'none') {
+    throw fieldError('sheath', `${plant?.genus ?? 'This genus'} does not flower from a sheath; mark buds or a spike as seen instead`);
+  }
+  return db.transaction(async (tx) => {
+    await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`measurement-day:${lead.id}`}))`);
+    const [sameDay] = await tx
+      .select()
+      .from(measurements)
+      .where(and(eq(measurements.leadId, lead.id), eq(measurements.measuredOn, input.date)))
+      .limit(1);
+    if (sameDay) {
+      const [row] = await tx
+        .update(measurements)
+        .set({ sheath: input.sheath, version: sql`${measurements.version} + 1`, updatedAt: sql`now()` })
+        .where(eq(measurements.id, sameDay.id))
+        .returning();
+      return { measurement: toMeasurement(row), created: false };
+    }
+    if (input.heightMm === undefined) {
+      throw fieldError('heightMm', "Type the bulb's height today: a sheath mark on a new day is saved as a measurement");
+    }
+    return insertOnce(tx, member, lead.id, {
+      measuredOn: input.date,
+      heightMm: input.heightMm,
+      sheath: input.sheath,
+      clientKey: input.clientKey ?? null,
+    });
   });
 }
 
@@ -139,6 +172,17 @@ export async function updateMeasurement(
   await assertWritablePlant(db, collectionId, plantId);
   const { date, ...rest } = changes;
   if (date !== undefined) assertMeasurementDate(date, firstSeen);
+  if (date !== undefined) {
+    const { measurement } = await findMeasurement(db, collectionId, measurementId);
+    if (measurement.measuredOn !== date) {
+      const [other] = await db
+        .select()
+        .from(measurements)
+        .where(and(eq(measurements.leadId, measurement.leadId), eq(measurements.measuredOn, date)))
+        .limit(1);
+      if (other) throw new StaleError(toMeasurement(other), `This lead already has a measurement on ${date}; edit that one instead`, 'measurement_exists');
+    }
+  }
   const [row] = await db
     .update(measurements)
     .set({ ...rest, ...(date !== undefined ? { measuredOn: date } : {}), version: sql`${measurements.version} + 1`, updatedAt: sql`now()` })

@@ -7,8 +7,10 @@ import { addDays, daysBetween, isIsoDate } from './dates';
 import { countOnOrBefore, datedMeasurements } from './dated-measurements';
 import type { LeadFlag } from './flags';
 import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
+import { formatDate, type LengthUnit } from './words';
 import type { LeadShape } from './growth-curve';
-import { earlierLeadShapes, forecastLead } from './lead-forecast';
+import { earlierLeadShapes, forecastLead, plantSelfCheck, storyOf, type PlantSelfCheck } from './lead-forecast';
+import { uncertainWindow, type LeadStory } from './story';
 import type { IsoDate, Measurement, Plant } from './types';
 
 export { earlierLeadShapes, SHAPE_SEASONS } from './lead-forecast';
@@ -31,6 +33,8 @@ export interface AttentionItem {
   /** The date the item is about (bloom window start, last measurement, …), if any. */
   date: IsoDate | null;
   flag?: LeadFlag;
+  /** The lead's one story (`leadStory`), the same as every other screen's. */
+  story: LeadStory;
 }
 
 export interface AttentionPlant {
@@ -38,6 +42,8 @@ export interface AttentionPlant {
   leads: readonly BloomHistory[];
   /** Fitted shapes of the plant's earlier leads; computed here when absent. */
   priorShapes?: readonly LeadShape[];
+  /** The plant's self-check (`plantSelfCheck`); computed here when absent. */
+  selfCheck?: PlantSelfCheck;
 }
 
 export interface AttentionOptions {
@@ -45,6 +51,10 @@ export interface AttentionOptions {
   sheathCheckDays?: number;
   bloomLookaheadDays?: number;
   genusDefaults?: (genus: string) => GenusDefaults;
+  /** The collection's season start month (a lead two growth years old gets no forecast). */
+  seasonStartMonth?: number;
+  /** Unit the stories write lengths in (default mm). */
+  units?: LengthUnit;
 }
 
 const ORDER: Record<AttentionKind, number> = { aborted: 0, stalled: 1, sheath: 2, bloom: 3, measure: 4 };
@@ -60,8 +70,8 @@ function latestMeasurement(h: BloomHistory, today: IsoDate): Measurement | null 
 }
 
 /**
- * The attention list for `today`, most urgent first (aborted, stalled, sheaths, bloom windows,
- * measuring), then by plant and lead id. Only each plant's current leads are considered: its own
+ * The attention list for `today`, most urgent first (aborted, stalled, sheaths, bloom windows
+ * by the date they open, measuring), then by plant and lead id. Only each plant's current leads are considered: its own
  * leads (`plantId` the plant's; a division's inherited parent leads only inform the forecasts) of
  * its latest season, and any own lead still growing. Each lead goes through `forecastLead`, so the
  * flags, chance and flower count are those of the lead page. Items:
@@ -71,7 +81,9 @@ function latestMeasurement(h: BloomHistory, today: IsoDate): Measurement | null 
  * - sheath: the latest measurement shows a forming or empty sheath, no buds recorded, and it is at
  *   least `sheathCheckDays` old;
  * - bloom: the bloom window's earliest date (10th percentile) falls between today and
- *   `bloomLookaheadDays` ahead, for a lead not yet in flower.
+ *   `bloomLookaheadDays` ahead, for a lead not yet in flower (a late one included) whose window is
+ *   narrow enough to plan with (`uncertainWindow`); its reason is the story's bloom sentence.
+ * Every item carries the lead's story, so what Today says of a lead is what its page says.
  */
 export function attentionList(plants: readonly AttentionPlant[], today: IsoDate, options: AttentionOptions = {}): AttentionItem[] {
   const measureEvery = options.measureEveryDays ?? MEASURE_EVERY_DAYS;
@@ -80,7 +92,8 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
   const horizon = addDays(today, lookahead);
   const items: AttentionItem[] = [];
 
-  for (const { plant, leads, priorShapes } of plants) {
+  const units = options.units ?? 'mm';
+  for (const { plant, leads, priorShapes, selfCheck } of plants) {
     const genus = (options.genusDefaults ?? genusDefaultsFor)(plant.genus);
     // Only the plant's own leads are its current leads: a division's history also holds its
     // parent's leads (another plantId), which inform the forecasts but are not reported here.
@@ -97,12 +110,28 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
       }
       return shapes;
     };
+    let check = selfCheck;
     for (const h of visible) {
       const lead = h.lead;
       if (lead.status === 'removed') continue;
       if (lead.season !== latestSeason && lead.status !== 'growing') continue;
       const target = { plantId: plant.id, leadId: lead.id };
       const last = latestMeasurement(h, today);
+      check ??= plantSelfCheck(plant, leads, genus);
+
+      // The same per-lead forecast and story as the lead page.
+      const forecast = forecastLead({
+        plant,
+        leads,
+        leadId: lead.id,
+        today,
+        genusDefaults: genus,
+        priorShapes: shapesFor(lead.season),
+        seasonStartMonth: options.seasonStartMonth,
+        heldOutErrors: check.heldOutErrors,
+      });
+      if (!forecast) continue;
+      const story = storyOf(h, forecast, today, units, check);
 
       if (lead.status === 'growing') {
         const since = last ? last.date : lead.firstSeen;
@@ -115,39 +144,34 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
             reason: last
               ? `no measurement in ${days} days (measure every ${measureEvery})`
               : `first seen ${days} days ago and not measured yet`,
+            story,
           });
         }
       }
 
-      // The same per-lead forecast as the lead page (fit, flags, bloom window from one call).
-      const forecast = forecastLead({ plant, leads, leadId: lead.id, today, genusDefaults: genus, priorShapes: shapesFor(lead.season) });
-      if (!forecast) continue;
       for (const flag of forecast.flags) {
-        items.push({ kind: flag.kind, target, date: flag.stalledSince, reason: flag.reason, flag });
+        items.push({ kind: flag.kind, target, date: flag.stalledSince, reason: flag.reason, flag, story });
       }
 
-      const budsOrOpen = Boolean(h.bloom?.budsSeen || h.bloom?.firstOpen);
-      if (last && (last.sheath === 'forming' || last.sheath === 'empty') && !budsOrOpen && lead.status !== 'dried_off' && lead.status !== 'rotted') {
+      const budsOrOpen = forecast.bloom.stage === 'buds_in_sheath' || forecast.bloom.stage === 'buds_visible' || Boolean(h.bloom?.firstOpen);
+      if (last && (last.sheath === 'forming' || last.sheath === 'empty') && !budsOrOpen && lead.status !== 'dried_off' && lead.status !== 'rotted' && genus.bloomHabit !== 'no_sheath') {
         const days = daysBetween(last.date, today);
         if (days >= sheathEvery) {
           items.push({
             kind: 'sheath',
             target,
             date: last.date,
-            reason: `sheath ${last.sheath} at the last look ${days} days ago: check for buds against the light`,
+            reason: `sheath ${last.sheath} at the last look, ${formatDate(last.date)} (${days} days ago): check for buds against the light`,
+            story,
           });
         }
       }
 
+      // Bloom windows that open soon, dated well enough to plan with; a late lead stays on the list.
       const f = forecast.bloom;
-      if (lead.status !== 'dried_off' && lead.status !== 'rotted' && !h.bloom?.firstOpen) {
-        if (f.firstOpen && f.firstOpen.p10 >= today && f.firstOpen.p10 <= horizon && f.chance >= BLOOM_MIN_CHANCE) {
-          items.push({
-            kind: 'bloom',
-            target,
-            date: f.firstOpen.p10,
-            reason: `bloom window opens ${f.firstOpen.p10} (likely ${f.firstOpen.p50}, chance ${Math.round(f.chance * 100)}%)`,
-          });
+      if ((f.timing === 'forecast' || f.timing === 'late') && f.firstOpen && !uncertainWindow(f.firstOpen)) {
+        if (f.firstOpen.p10 >= today && f.firstOpen.p10 <= horizon && f.chance >= BLOOM_MIN_CHANCE) {
+          items.push({ kind: 'bloom', target, date: f.firstOpen.p10, reason: story.bloom, story });
         }
       }
     }
@@ -156,6 +180,7 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
   return items.sort(
     (a, b) =>
       ORDER[a.kind] - ORDER[b.kind] ||
+      (a.kind === 'bloom' && a.date && b.date ? (a.date < b.date ? -1 : a.date > b.date ? 1 : 0) : 0) ||
       a.target.plantId.localeCompare(b.target.plantId) ||
       a.target.leadId.localeCompare(b.target.leadId),
   );

@@ -1,16 +1,37 @@
 /**
- * Bloom window of a lead. Stages: growing → mature (sheath formed, or for genera without a sheath
- * the bulb at full height) → buds visible → first flower open → faded.
+ * Bloom window of a lead, along the stages of `bloom-stage.ts`: growing → bulb mature (for a
+ * sheathed genus, the sheath forming) → buds (in the sheath, or visible) → first flower open →
+ * faded, with the empty and dry sheath beside the path.
  *
  * Intervals between stages are modelled as log-normal. The plant's own past intervals (one per
  * season) are shrunk toward the genus default with weight w = n/(n + k) on the log scale,
  * k = BLOOM_SHRINKAGE_K: with three seasons of history the plant and the genus count equally.
  * Once a lead has matured, the plant's own usual first-flower day (its past first-open dates
  * moved to this season) is blended in by precision, and the window is sized from the errors both
- * made on the plant's past seasons (`blendWithSeason`).
+ * made on the plant's past seasons (`blendWithSeason`). Time then passes honestly
+ * (`bloom-timing.ts`): the window is what is left of that distribution after today, the chance
+ * falls as the lead stays closed past its likely day, and past its latest plausible day the lead
+ * is probably not flowering this season.
  */
 import { mean, median, sampleVariance } from 'simple-statistics';
-import { addDays, daysBetween, isIsoDate, shiftedDayNumber, toDayNumber } from './dates';
+import { budsInSheathOn, budsVisibleOn, flowersFromSheath, latestSheath, type BloomStage } from './bloom-stage';
+import {
+  byQuantiles,
+  conditionedDay,
+  LATEST_PLAUSIBLE_LEVEL,
+  logNormalAfter,
+  mixture,
+  normalAfter,
+  shareBy,
+  widened,
+  widenWindow,
+  WINDOW_Z,
+  Z80_HALF,
+  type DateWindow,
+  type DayDistribution,
+  type LogNormal,
+} from './bloom-timing';
+import { addDays, daysBetween, fromDayNumber, isIsoDate, shiftedDayNumber, toDayNumber } from './dates';
 import { countOnOrBefore, datedMeasurements } from './dated-measurements';
 import {
   dailyDegreeDays,
@@ -21,7 +42,7 @@ import {
   sumDegreeDays,
   type DegreeDayOptions,
 } from './degree-days';
-import { normalCdf, normalQuantile } from './distributions';
+import { normalQuantile } from './distributions';
 import type { LeadFlag } from './flags';
 import type { GenusDefaults, StageInterval } from './genus-defaults';
 import { fitAsOfLastMeasurement, MIN_POINTS_FREE_FIT, type LeadCurveFit } from './growth-curve';
@@ -54,38 +75,98 @@ export const CHANCE_FACTORS = {
 export const BUDS_OPEN_CHANCE = 0.95;
 /** Chance is kept within these bounds unless the outcome is already known. */
 export const CHANCE_BOUNDS = [0.02, 0.98] as const;
-/** Spread (1 SD) of a predicted maturity date, days, when the growth fit gives none (chosen). */
+/** Spread (1 SD) of a predicted maturity date, days, before the plant's own leads say otherwise (chosen). */
 export const MATURITY_DATE_SD_DAYS = 14;
+/**
+ * An empty or dry sheath where buds were expected: the rest of the path may still come (some
+ * bloom from a dry sheath months later — common practice, REFERENCES.md) or wait for next season,
+ * so the spread of the timing is multiplied by this (chosen, not measured).
+ */
+export const EMPTY_SHEATH_WIDEN = 1.5;
+/**
+ * Weight of the plant's plain mature → open interval beside the blend with its usual day: some
+ * seasons run far from a plant's habit (buds held in the sheath for months — common practice,
+ * REFERENCES.md), which a normal blend alone would call impossible after a few weeks (chosen).
+ */
+export const SEASON_OFF_HABIT_WEIGHT = 0.1;
+/** Fewest held-out errors of a plant at a stage before they set the narrowest window (chosen). */
+export const MIN_HELD_OUT_ERRORS = 2;
 
-export type BloomStage = 'growing' | 'mature' | 'buds' | 'in_flower' | 'faded' | 'lost';
+export type { BloomStage } from './bloom-stage';
+export type { DateWindow } from './bloom-timing';
+
+/** The stage a forecast was made at, as the self-check reports it. */
+export type ForecastStage = 'growing' | 'mature' | 'sheath' | 'buds';
+
+/** The self-check's stage for a lead's bloom stage (null once in flower, faded or lost). */
+export function forecastStageOf(stage: BloomStage): ForecastStage | null {
+  switch (stage) {
+    case 'growing':
+      return 'growing';
+    case 'bulb_mature':
+      return 'mature';
+    case 'sheath_forming':
+    case 'sheath_empty':
+    case 'sheath_dry':
+      return 'sheath';
+    case 'buds_in_sheath':
+    case 'buds_visible':
+      return 'buds';
+    case 'in_flower':
+    case 'faded':
+    case 'lost':
+      return null;
+    default: {
+      const unhandled: never = stage;
+      return unhandled;
+    }
+  }
+}
+
+/**
+ * How the first flower stands on `today`: a recorded date; a forecast still ahead; late (past its
+ * likely date and not open); probably not this season (past its latest plausible date); or no
+ * forecast at all (lost, a lead of a season long past, or no maturity date yet).
+ */
+export type BloomTiming = 'record' | 'forecast' | 'late' | 'unlikely' | 'none';
 
 /** A past or current lead with its measurements and bloom record. */
 export interface BloomHistory extends LeadHistory {
   bloom: BloomRecord | null;
 }
 
-export interface DateWindow {
-  p10: IsoDate;
-  p50: IsoDate;
-  p90: IsoDate;
-}
-
 export interface BloomForecast {
   leadId: string;
   stage: BloomStage;
-  /** Date of the stage the forecast starts from (mature, buds), or null while growing. */
+  /** Date the lead reached its stage (first flower, buds, the sheath look, maturity), or null while growing. */
   stageDate: IsoDate | null;
-  /** First flower open: earliest (10th), likely (50th) and latest (90th percentile). Actual date when known. */
+  timing: BloomTiming;
+  /**
+   * First flower open: earliest (10th), likely (50th) and latest (90th percentile) of what is left
+   * after today; the recorded date three times once open; null without a forecast.
+   */
   firstOpen: DateWindow | null;
+  /** When late: the date its record made likely (the median before today ruled days out), and how far past it today is. */
+  late: { likelyWas: IsoDate; daysLate: number } | null;
+  /** The last date the plant's record makes plausible for the first flower (LATEST_PLAUSIBLE_LEVEL), when there is a forecast. */
+  latestPlausible: IsoDate | null;
   /** Likely date the last flower fades. */
   lastFadedLikely: IsoDate | null;
   mode: 'days' | 'degree-days';
-  /** Probability (0–1) that this lead flowers this season. */
+  /** Probability (0–1) that this lead flowers this season, given everything up to today. */
   chance: number;
   chanceReasons: string[];
   expectedFlowers: { count: number; perSpike: number; spikes: number; basis: 'plant-by-size' | 'plant-mean' | 'genus' };
   /** Seasons of the plant's own history behind the interval, and the weight they got. */
   history: { seasons: number; weight: number };
+  /**
+   * Share (0–1) of the plant's usual timing for this lead that what is known rules out: days gone
+   * by without a flower, and days too soon for buds not there at the last look. The chance is
+   * conditioned on it.
+   */
+  shareGone: number;
+  /** The narrowest window the plant's held-out errors at this stage allow (half width, days), when it applied. */
+  heldOutHalfWidthDays: number | null;
   notes: string[];
 }
 
@@ -165,11 +246,6 @@ export function maturedOn(h: LeadHistory, genus: GenusDefaults, today?: IsoDate)
   return maturedOnSorted(sortedMeasurements(h, today), h.lead, genus, h.measurements);
 }
 
-interface LogNormal {
-  mu: number;
-  sigma: number;
-}
-
 /**
  * Limited translation of the shrinkage (Efron & Morris 1971, "Limiting the risk of Bayes and
  * empirical Bayes estimators — Part I", JASA 66:807–815; Part II 1972, JASA 67:130–139): the
@@ -182,8 +258,16 @@ interface LogNormal {
 export const SHRINKAGE_MAX_SHIFT_SE = 1;
 
 /**
+ * Share of a genus default's spread (its log SD, across plants and seasons) that lies within one
+ * plant from season to season; the rest is how plants of the genus differ (chosen: half, i.e. a
+ * quarter of the variance — a plant keeps its own habit, common practice).
+ */
+export const WITHIN_PLANT_SPREAD_SHARE = 0.5;
+
+/**
  * Shrinks the plant's own log-intervals toward a genus log-normal: μ = w·mean + (1 − w)·μ_g with
- * w = n/(n + k); σ² = w·s² + (1 − w)·σ_g² (plant variance only with n ≥ 2), inflated by
+ * w = n/(n + k); σ² = w·s² + (1 − w)·(WITHIN_PLANT_SPREAD_SHARE·σ_g)² with n ≥ 2 seasons of its
+ * own, σ_g² with fewer, inflated by
  * (1 + 1/(n + k)) for the uncertainty of μ. Non-positive intervals are dropped. With
  * `maxShiftSe`, the move from the plant's mean toward the genus is limited to that many standard
  * errors √(σ²/n) of the plant's mean (limited translation, SHRINKAGE_MAX_SHIFT_SE); `weight` is
@@ -200,8 +284,11 @@ export function shrinkLogInterval(
   let w = n / (n + k);
   const plantMean = n > 0 ? mean(logs) : genus.mu;
   let mu = n > 0 ? w * plantMean + (1 - w) * genus.mu : genus.mu;
+  // Once the plant has seasons of its own, its season-to-season spread is shrunk toward the part
+  // of the genus spread that lies within one plant (the rest is between plants).
+  const priorVar = n >= 2 ? (WITHIN_PLANT_SPREAD_SHARE * genus.sigma) ** 2 : genus.sigma ** 2;
   const varPlant = n >= 2 ? sampleVariance(logs) : genus.sigma ** 2;
-  const v = w * varPlant + (1 - w) * genus.sigma ** 2;
+  const v = w * varPlant + (1 - w) * priorVar;
   if (n > 0 && options.maxShiftSe !== undefined && Number.isFinite(options.maxShiftSe) && options.maxShiftSe >= 0) {
     const maxShift = options.maxShiftSe * Math.sqrt(v / n);
     const shift = mu - plantMean;
@@ -226,8 +313,8 @@ function chainGenus(a: StageInterval, b: StageInterval): LogNormal {
   return { mu: Math.log(total), sigma: Math.hypot(wa * a.logSd, wb * b.logSd) };
 }
 
-const Z10 = normalQuantile(0.1);
-const Z90 = normalQuantile(0.9);
+const Z10 = WINDOW_Z.p10;
+const Z90 = WINDOW_Z.p90;
 
 /** Past stage intervals of the plant, in days (and degree-days when readings are given). */
 export interface PastIntervals {
@@ -235,6 +322,8 @@ export interface PastIntervals {
   leadId: string;
   matureToOpenDays: number | null;
   budsToOpenDays: number | null;
+  /** First look that found buds in the sheath → first flower (a sheathed genus only). */
+  sheathBudsToOpenDays: number | null;
   openToFadedDays: number | null;
   matureToOpenDegreeDays: number | null;
   budsToOpenDegreeDays: number | null;
@@ -291,7 +380,9 @@ function pastRow(h: BloomHistory, genus: GenusDefaults, dd: (from: IsoDate, to: 
   const ms = sortedMeasurements(h);
   const mature = maturedOnCached(h, ms, genus);
   const b = h.bloom;
-  const buds = b?.budsSeen && isIsoDate(b.budsSeen) ? b.budsSeen : null;
+  const budsOn = budsVisibleOn(b);
+  const buds = budsOn && isIsoDate(budsOn) ? budsOn : null;
+  const inSheath = budsInSheathOn(ms, genus);
   const open = b?.firstOpen && isIsoDate(b.firstOpen) ? b.firstOpen : null;
   const faded = b?.lastFaded && isIsoDate(b.lastFaded) ? b.lastFaded : null;
   const drySeen = ms.find((m) => m.sheath === 'dry');
@@ -300,6 +391,7 @@ function pastRow(h: BloomHistory, genus: GenusDefaults, dd: (from: IsoDate, to: 
     leadId: h.lead.id,
     matureToOpenDays: mature && open ? daysBetween(mature, open) : null,
     budsToOpenDays: buds && open ? daysBetween(buds, open) : null,
+    sheathBudsToOpenDays: inSheath && open && inSheath <= open ? daysBetween(inSheath, open) : null,
     openToFadedDays: open && faded ? daysBetween(open, faded) : null,
     matureToOpenDegreeDays: mature && open ? dd(mature, open) : null,
     budsToOpenDegreeDays: buds && open ? dd(buds, open) : null,
@@ -335,6 +427,18 @@ export interface BloomForecastInput {
    * default true. Degree-day mode runs on the intervals alone.
    */
   seasonalPrior?: boolean;
+  /**
+   * The collection's growth year on `today` (its season start month applied). A lead two or more
+   * seasons older is history: it flowered (a record) or it did not, and gets no forecast.
+   */
+  currentSeason?: number;
+  /**
+   * The plant's own held-out errors (days, forecast minus actual) of forecasts made at each stage
+   * (the self-check, `backtestBloomForecasts`). With at least MIN_HELD_OUT_ERRORS at the lead's
+   * stage, the window is never narrower than they support: half widths of at least z₀.₉ × their
+   * root mean square.
+   */
+  heldOutErrors?: Partial<Record<ForecastStage, readonly number[]>>;
 }
 
 /**
@@ -343,60 +447,11 @@ export interface BloomForecastInput {
  * as for the 10th/90th percentiles). Increasing in z.
  */
 function offsetAtZ(ln: LogNormal, extraSdDays: number, z: number): number {
-  const med = Math.exp(ln.mu);
-  const d = Math.abs(Math.exp(ln.mu + z * ln.sigma) - med);
-  const w = Math.sqrt(d * d + (z * extraSdDays) ** 2);
-  return z < 0 ? med - w : med + w;
-}
-
-/** Below this probability of having opened already, the forecast is left unconditioned (numerical floor). */
-const CONDITION_MIN_PROBABILITY = 1e-4;
-/** Quantile levels are kept this far inside (0, 1) when conditioning (numerical floor). */
-const QUANTILE_EPS = 1e-9;
-/** Percentile levels of the window. */
-const WINDOW_LEVELS = { p10: 0.1, p50: 0.5, p90: 0.9 } as const;
-
-/**
- * z of the conditional quantile: given that the interval has not ended by a point where its
- * cumulative probability is `pBefore`, the q-quantile of the rest is F⁻¹(pBefore + q·(1 − pBefore))
- * (a left-truncated distribution). With pBefore under CONDITION_MIN_PROBABILITY, z of q itself.
- */
-function conditionedZ(q: number, pBefore: number, zOfQ: number): number {
-  if (pBefore < CONDITION_MIN_PROBABILITY) return zOfQ;
-  const u = Math.min(1 - QUANTILE_EPS, Math.max(QUANTILE_EPS, pBefore + q * (1 - pBefore)));
-  return normalQuantile(u);
-}
-
-/** z levels of the window's 10th, 50th and 90th percentiles, as they are without conditioning. */
-const Z_OF = { p10: Z10, p50: 0, p90: Z90 } as const;
-
-/**
- * The window as offsets from `start`. With `elapsedDays` (days from the start to today, the
- * first flower not open yet), the distribution is conditioned on the interval being longer than
- * that; `pBefore` is the probability it would have been over already.
- */
-function windowFrom(start: IsoDate, ln: LogNormal, extraSdDays = 0, elapsedDays?: number): { window: DateWindow; pBefore: number } {
-  let pBefore = 0;
-  if (elapsedDays !== undefined && elapsedDays > 0 && elapsedDays > offsetAtZ(ln, extraSdDays, -8)) {
-    // Level z at which the offset equals the elapsed days (bisection; offsetAtZ increases in z).
-    let lo = -8;
-    let hi = 8;
-    if (elapsedDays >= offsetAtZ(ln, extraSdDays, hi)) lo = hi;
-    else {
-      for (let i = 0; i < 60; i++) {
-        const mid = (lo + hi) / 2;
-        if (offsetAtZ(ln, extraSdDays, mid) < elapsedDays) lo = mid;
-        else hi = mid;
-      }
-    }
-    pBefore = normalCdf(lo);
-  }
-  const at = (k: keyof typeof Z_OF) => addDays(start, Math.round(offsetAtZ(ln, extraSdDays, conditionedZ(WINDOW_LEVELS[k], pBefore, Z_OF[k]))));
-  return { window: { p10: at('p10'), p50: at('p50'), p90: at('p90') }, pBefore };
+  return logNormalAfter(0, ln, extraSdDays).dayAt(z);
 }
 
 /**
- * Spread (1 SD, days) of a plant's first-flower day from one season to the next, before its own
+ * Spread (1 SD) of a plant's first-flower day from one season to the next, before its own
  * seasons say otherwise: about three weeks (from memory; growers' records commonly show a plant
  * opening within a few weeks of "its" date). Shrunk toward with the same n/(n + k) weight.
  */
@@ -404,8 +459,11 @@ export const SEASONAL_BLOOM_SD_DAYS = 21;
 
 /** The plant's usual first-flower day carried to this season, and the blend with the interval forecast. */
 export interface SeasonalBlend {
+  /** The blend's 80% window, before today is taken into account. */
   window: DateWindow;
-  pBefore: number;
+  /** Centre of the blend, days after the start, and its spread (1 SD, days). */
+  centreDays: number;
+  sdDays: number;
   /** Past first flowers behind the seasonal day, and the weight the seasonal day got (0–1). */
   seasons: number;
   seasonalWeight: number;
@@ -428,7 +486,7 @@ const meanSquare = (xs: readonly number[]) => xs.reduce((a, x) => a + x * x, 0) 
  *   toward the combined model variance 1/(1/v_I + 1/v_S), plus the interval's share of
  *   `extraSdDays` (a predicted maturity date), so it is as wide as the plant's record warrants
  *   rather than a stack of worst cases.
- * - Null without a past first flower. With `elapsedDays`, conditioned on not having opened yet.
+ * - Null without a past first flower.
  */
 export function blendWithSeason(
   start: IsoDate,
@@ -437,7 +495,6 @@ export function blendWithSeason(
   genusInterval: LogNormal,
   past: readonly PastIntervals[],
   extraSdDays = 0,
-  elapsedDays = 0,
 ): SeasonalBlend | null {
   const opened = past.filter((p): p is PastIntervals & { firstOpen: IsoDate } => p.firstOpen !== null);
   const n = opened.length;
@@ -482,35 +539,130 @@ export function blendWithSeason(
   const modelVar = 1 / (1 / vI + 1 / vS);
   const blendVar = m ? shrunk(meanSquare(eI.map((e, i) => wI * e + wS * eS[i])), modelVar) : modelVar;
   const sd = Math.sqrt(blendVar + (wI * extraSdDays) ** 2);
-
-  let pBefore = 0;
-  if (elapsedDays > 0) pBefore = normalCdf((elapsedDays - centre) / sd);
-  const at = (key: keyof typeof Z_OF) => addDays(start, Math.round(centre + sd * conditionedZ(WINDOW_LEVELS[key], pBefore, Z_OF[key])));
-  return { window: { p10: at('p10'), p50: at('p50'), p90: at('p90') }, pBefore, seasons: n, seasonalWeight: wS };
+  const at = (z: number) => addDays(start, Math.round(centre + sd * z));
+  return { window: { p10: at(Z10), p50: at(0), p90: at(Z90) }, centreDays: centre, sdDays: sd, seasons: n, seasonalWeight: wS };
 }
 
-/** No percentile date of a lead not open yet lies before today. */
-function notBefore(w: DateWindow, today: IsoDate): DateWindow {
-  const f = (d: IsoDate) => (d < today ? today : d);
-  return { p10: f(w.p10), p50: f(w.p50), p90: f(w.p90) };
+const pct = (x: number) => `${Math.round(x * 100)}%`;
+
+/**
+ * The day a growing lead is expected to mature as the engine counts maturity (the first sheath for
+ * a sheathed genus, else full height), with its spread: the growth curve's date of 95% of its
+ * height, moved by how far this plant's finished leads matured from their own curves' date (median,
+ * shrunk toward none with weight n/(n + k)) — a sheath often shows well before the bulb reaches
+ * full height. The spread is those leads' own scatter about it, shrunk toward
+ * MATURITY_DATE_SD_DAYS the same way.
+ */
+function predictedMaturity(fit: LeadCurveFit | null, history: readonly BloomHistory[], genus: GenusDefaults): { date: IsoDate; sdDays: number } | null {
+  if (!fit) return null;
+  const lags: number[] = [];
+  for (const h of history) {
+    if (h.lead.status === 'growing') continue;
+    const matured = maturedOnCached(h, sortedMeasurements(h), genus);
+    const curve = matured ? fitAsOfLastMeasurement(h.measurements, h.lead, genus) : null;
+    if (matured && curve && curve.method === 'free') lags.push(daysBetween(curve.maturityDate, matured));
+  }
+  const n = lags.length;
+  if (n === 0) return { date: fit.maturityDate, sdDays: MATURITY_DATE_SD_DAYS };
+  const k = BLOOM_SHRINKAGE_K;
+  const lag = median(lags) * (n / (n + k));
+  const variance = n >= 2 ? (n * sampleVariance(lags) + k * MATURITY_DATE_SD_DAYS ** 2) / (n + k) : MATURITY_DATE_SD_DAYS ** 2;
+  return { date: addDays(fit.maturityDate, Math.round(lag)), sdDays: Math.sqrt(variance) };
+}
+
+/** Levels at which the time buds still need is averaged over (midpoints of 16 equal shares). */
+const BUDS_LEVELS = Array.from({ length: 16 }, (_, k) => normalQuantile((k + 0.5) / 16));
+
+/**
+ * The share of `usual` ruled out when the flower cannot open before today nor before buds not yet
+ * there have formed and opened (`afterNoBuds`, a distribution of that day): the mean over the
+ * buds' time of the share of `usual` before the later of the two.
+ */
+function meanShareBefore(usual: DayDistribution, afterNoBuds: DayDistribution, todayDay: number): number {
+  let sum = 0;
+  for (const z of BUDS_LEVELS) sum += shareBy(usual, Math.max(todayDay, afterNoBuds.dayAt(z)) - 0.5);
+  return sum / BUDS_LEVELS.length;
+}
+
+/** What the engine knows of the lead on `today`: its records, its looks and the stage they put it at. */
+interface LeadState {
+  open: IsoDate | null;
+  faded: IsoDate | null;
+  /** Buds visible (recorded), or else buds found in the sheath: the date the buds stage counts from. */
+  buds: IsoDate | null;
+  /** True when `buds` is the sheath look (buds not out yet). */
+  budsInSheath: boolean;
+  mature: IsoDate | null;
+  sheath: ReturnType<typeof latestSheath>;
+  lost: boolean;
+  abortFlag: LeadFlag | undefined;
+  stage: BloomStage;
+  stageDate: IsoDate | null;
+  /** Latest look that would have shown buds and did not (a genus without a sheath: any look; else an empty or dry sheath). */
+  noBudsOn: IsoDate | null;
+}
+
+function leadState(current: BloomHistory, ms: readonly Measurement[], genus: GenusDefaults, today: IsoDate, flags: readonly LeadFlag[] | undefined): LeadState {
+  const lead = current.lead;
+  const bloom = current.bloom;
+  const recorded = (d: IsoDate | null | undefined) => (d && isIsoDate(d) && d <= today ? d : null);
+  const open = recorded(bloom?.firstOpen);
+  const faded = recorded(bloom?.lastFaded);
+  const visible = budsVisibleOn(bloom, today);
+  const inSheath = visible ? null : budsInSheathOn(ms, genus, today);
+  const buds = visible ?? inSheath;
+  const mature = maturedOnSorted(ms, lead, genus);
+  const sheath = latestSheath(ms, genus);
+  const abortFlag = !open && !buds ? flags?.find((f) => f.kind === 'aborted' && f.leadId === lead.id) : undefined;
+  const lost = lead.status === 'dried_off' || lead.status === 'rotted' || lead.status === 'removed' || abortFlag !== undefined;
+  let stage: BloomStage;
+  let stageDate: IsoDate | null;
+  if (lost && !open) [stage, stageDate] = ['lost', null];
+  else if (faded) [stage, stageDate] = ['faded', faded];
+  else if (open) [stage, stageDate] = ['in_flower', open];
+  else if (visible) [stage, stageDate] = ['buds_visible', visible];
+  else if (inSheath) [stage, stageDate] = ['buds_in_sheath', inSheath];
+  else if (sheath.sheath === 'empty') [stage, stageDate] = ['sheath_empty', sheath.on];
+  else if (sheath.sheath === 'dry') [stage, stageDate] = ['sheath_dry', sheath.on];
+  else if (sheath.sheath === 'forming') [stage, stageDate] = ['sheath_forming', mature ?? sheath.on];
+  else if (mature) [stage, stageDate] = ['bulb_mature', mature];
+  else [stage, stageDate] = ['growing', null];
+  let noBudsOn: IsoDate | null = null;
+  if (!buds && !open) {
+    if (!flowersFromSheath(genus)) noBudsOn = ms.length && mature ? ms[ms.length - 1].date : null;
+    else if (stage === 'sheath_empty' || stage === 'sheath_dry') noBudsOn = sheath.on;
+  }
+  return { open, faded, buds, budsInSheath: visible === null && inSheath !== null, mature, sheath, lost, abortFlag, stage, stageDate, noBudsOn };
 }
 
 /**
  * Forecasts when (10th/50th/90th percentile dates of the first open flower) and whether the lead
  * blooms, and how many flowers it is likely to carry.
  *
- * Starting point: the actual first-open date if recorded; else buds seen + (buds → open); else the
- * date the lead matured + (mature → open); else, while growing, the growth fit's maturity date
- * (spread MATURITY_DATE_SD_DAYS) + (mature → open). Intervals: the plant's own, shrunk toward the
- * genus sum of stage medians (see `shrinkLogInterval`); from maturity (days mode) blended with
- * the plant's usual first-flower day (see `blendWithSeason`). Degree-day mode is used when `readings`
- * give at least one past interval in degree-days; the genus default is then converted with the
- * history's mean daily degree-days, and the dates are projected with the area's recent normal.
+ * The plant's usual timing: from buds (seen, or found in the sheath) + (buds → open); else from
+ * the date the lead matured + (mature → open), blended with the plant's usual first-flower day
+ * (see `blendWithSeason`); else, while growing, from the growth fit's maturity date (spread
+ * MATURITY_DATE_SD_DAYS; today once that date has passed) + (mature → open). Intervals: the
+ * plant's own, shrunk toward the genus (see `shrinkLogInterval`). Degree-day mode is used when
+ * `readings` give at least one past interval in degree-days; the genus default is then converted
+ * with the history's mean daily degree-days, and the dates are projected with the area's recent
+ * normal.
+ *
+ * What is known rules days out: the flower has not opened by today; where a look would have shown
+ * buds and did not (a genus without a sheath, or an empty or dry sheath), it cannot open before
+ * buds formed after that look have opened; an empty or dry sheath widens the rest by
+ * EMPTY_SHEATH_WIDEN. The window is what remains (never before today); past the usual median the
+ * lead is late; past LATEST_PLAUSIBLE_LEVEL of the usual timing it is probably not flowering this
+ * season (no window). With the plant's held-out errors at this stage, the window is widened to
+ * what they support.
  *
  * Chance: the plant's bloom record shrunk toward the genus bloom rate, times the sheath factor
- * (a dry sheath counts against only for summer, green-sheath bloomers, or mildly when the plant's
- * habit is unknown) and the size factor against last season's lead (CHANCE_FACTORS). 1 once in
- * bud or flower; 0 for a lead dried off, rotted or removed.
+ * (a sheathed genus only: a dry sheath counts against summer, green-sheath bloomers, or mildly
+ * when the plant's habit is unknown; an empty one mildly) and the size factor against last
+ * season's lead (CHANCE_FACTORS); BUDS_OPEN_CHANCE once in bud. Then conditioned on what has
+ * not happened yet: c·S / (c·S + 1 − c), S the share of the usual timing still ahead, so it falls
+ * each day a lead stays closed past its time. 1 once open; 0 for a lead dried off, rotted,
+ * removed, aborted, or of a season long past without a record.
  *
  * Flowers: flowers per spike against mature bulb height across the plant's history (a line with
  * ≥ 3 seasons of differing size, else their mean, else the genus default) × the usual spike count.
@@ -522,17 +674,13 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   const history = input.history.filter((h) => h.lead.id !== lead.id && h.lead.season !== lead.season);
   const ddOptions: DegreeDayOptions = input.degreeDays ?? { baseTemp: ORCHID_BASE_TEMP_C, method: DEFAULT_DEGREE_DAY_METHOD };
   const past = pastIntervals(history, genus, input.readings, ddOptions);
-
   const bloom = current.bloom;
-  const open = bloom?.firstOpen && isIsoDate(bloom.firstOpen) && bloom.firstOpen <= today ? bloom.firstOpen : null;
-  const buds = bloom?.budsSeen && isIsoDate(bloom.budsSeen) && bloom.budsSeen <= today ? bloom.budsSeen : null;
-  const faded = bloom?.lastFaded && isIsoDate(bloom.lastFaded) && bloom.lastFaded <= today ? bloom.lastFaded : null;
   const currentMs = sortedMeasurements(current, today);
   const currentTallest = tallestOf(currentMs);
-  const mature = maturedOnSorted(currentMs, lead, genus);
-  const abortFlag = !open && !buds ? input.flags?.find((f) => f.kind === 'aborted' && f.leadId === lead.id) : undefined;
-  const lost = lead.status === 'dried_off' || lead.status === 'rotted' || lead.status === 'removed' || abortFlag !== undefined;
-  const stage: BloomStage = lost && !open ? 'lost' : faded ? 'faded' : open ? 'in_flower' : buds ? 'buds' : mature ? 'mature' : 'growing';
+  const state = leadState(current, currentMs, genus, today, input.flags);
+  const { open, faded, buds, mature, stage } = state;
+  const todayDay = toDayNumber(today);
+  const pastSeason = !open && input.currentSeason !== undefined && lead.season <= input.currentSeason - 2;
 
   // Size against last season, like with like: the predicted mature height (growth fit) or, for a
   // finished lead, its tallest height against last season's final height; for a young lead
@@ -548,83 +696,146 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   const b2oDD = past.map((p) => p.budsToOpenDegreeDays).filter((d): d is number => d !== null);
   const genusM2O = chainGenus(genus.matureToBuds, genus.budsToOpen);
   const genusB2O = genusLogNormal(genus.budsToOpen);
-  const fromBuds = stage === 'buds';
+  const shrinkOptions = { maxShiftSe: SHRINKAGE_MAX_SHIFT_SE };
+  const budsToOpen = shrinkLogInterval(budsToOpenDays, genusB2O, BLOOM_SHRINKAGE_K, shrinkOptions);
+  const fromBuds = buds !== null;
+  // Buds found in the sheath: the plant's own sheath-buds → flower intervals, shrunk toward the genus.
+  const sheathBudsDays = past.map((p) => p.sheathBudsToOpenDays).filter((d): d is number => d !== null);
+  const genusSB2O = genusLogNormal(genus.sheathBudsToOpen ?? genus.budsToOpen);
+  const sheathBudsToOpen = shrinkLogInterval(sheathBudsDays, genusSB2O, BLOOM_SHRINKAGE_K, shrinkOptions);
+  const fromBudsInterval = state.budsInSheath ? sheathBudsToOpen : budsToOpen;
+  // Buds missing at a look that would have shown them still have all their way to go: in a
+  // sheath, from forming there; without one, from showing on the bulb or cane.
+  const budsStillToCome = flowersFromSheath(genus) ? sheathBudsToOpen : budsToOpen;
 
   let mode: 'days' | 'degree-days' = 'days';
-  let firstOpen: DateWindow | null = null;
-  const elapsedNote = (pBefore: number, start: IsoDate) => {
-    if (pBefore >= CONDITION_MIN_PROBABILITY) {
-      notes.push(
-        `not open by ${today} (${daysBetween(start, today)} days after ${fromBuds ? 'buds were seen' : 'maturity'}): window conditioned on opening after today ` +
-          `(${Math.round(pBefore * 100)}% of such intervals would have been over by now)`,
-      );
-    }
-  };
   let seasons = 0;
   let weight = 0;
   const dailyNormal = input.readings && input.readings.length ? recentDailyDegreeDays(input.readings, today, ddOptions) : null;
-  const useDD = (fromBuds ? b2oDD.length : m2oDD.length) > 0 && dailyNormal !== null && dailyNormal > 0;
+  // No degree-day record exists for buds found in the sheath: that stage runs in days.
+  const useDD = !state.budsInSheath && (fromBuds ? b2oDD.length : m2oDD.length) > 0 && dailyNormal !== null && dailyNormal > 0;
 
-  if (open) {
-    firstOpen = { p10: open, p50: open, p90: open };
-  } else if (stage !== 'lost') {
-    let start = fromBuds ? buds : (mature ?? input.fit?.maturityDate ?? null);
+  // The plant's usual timing of the first flower for this lead, before today rules anything out,
+  // counted from `usualStart` (buds, maturity, or the predicted maturity).
+  let usual: DayDistribution | null = null;
+  let usualStart = todayDay;
+  if (!open && stage !== 'lost' && !pastSeason) {
+    const predicted = fromBuds || mature ? null : predictedMaturity(input.fit ?? null, history, genus);
+    let start = fromBuds ? buds : (mature ?? predicted?.date ?? null);
     if (start && !fromBuds && !mature && start < today) {
       // Still not mature on today: the maturity date, conditioned on that, is today at the earliest.
       notes.push(`past its predicted maturity date ${start} and not mature yet: counted from today`);
       start = today;
     }
+    if (start) usualStart = toDayNumber(start);
     if (!start) {
       notes.push('no maturity date yet: bloom window needs the lead to be measured');
     } else if (useDD && input.readings) {
       mode = 'degree-days';
-      const ddPerDay = meanDailyDegreeDays(input.readings, ddOptions) ?? dailyNormal!;
+      const readings = input.readings;
+      const ddPerDay = meanDailyDegreeDays(readings, ddOptions) ?? dailyNormal!;
       const g = fromBuds ? genusB2O : genusM2O;
-      const genusDD = { mu: g.mu + Math.log(ddPerDay), sigma: g.sigma };
-      const sh = shrinkLogInterval(fromBuds ? b2oDD : m2oDD, genusDD, BLOOM_SHRINKAGE_K, { maxShiftSe: SHRINKAGE_MAX_SHIFT_SE });
+      const sh = shrinkLogInterval(fromBuds ? b2oDD : m2oDD, { mu: g.mu + Math.log(ddPerDay), sigma: g.sigma }, BLOOM_SHRINKAGE_K, shrinkOptions);
       seasons = sh.n;
       weight = sh.weight;
-      const target = (z: number) => Math.exp(sh.mu + z * sh.sigma);
-      // Not open yet: condition on the degree-days still to come (left truncation at those so far).
-      let pBefore = 0;
-      if (start < today) {
-        const so = sumDegreeDays(input.readings, start, today, ddOptions);
-        if (so.degreeDays > 0) pBefore = normalCdf((Math.log(so.degreeDays) - sh.mu) / sh.sigma);
-      }
-      const at = (k: keyof typeof Z_OF) => {
-        const z = conditionedZ(WINDOW_LEVELS[k], pBefore, Z_OF[k]);
-        return dateReachingDegreeDays(input.readings!, start, target(z), today, ddOptions) ?? addDays(start, Math.round(target(z) / ddPerDay));
-      };
-      firstOpen = { p10: at('p10'), p50: at('p50'), p90: at('p90') };
-      elapsedNote(pBefore, start);
-      notes.push(`intervals in degree-days above ${ddOptions.baseTemp}° (${ddOptions.method ?? DEFAULT_DEGREE_DAY_METHOD} averaging)`);
-    } else {
-      const sh = shrinkLogInterval(fromBuds ? budsToOpenDays : matureToOpenDays, fromBuds ? genusB2O : genusM2O, BLOOM_SHRINKAGE_K, {
-        maxShiftSe: SHRINKAGE_MAX_SHIFT_SE,
+      const startDay = toDayNumber(start);
+      usual = byQuantiles((z) => {
+        const target = Math.exp(sh.mu + z * sh.sigma);
+        const reached = dateReachingDegreeDays(readings, start, target, today, ddOptions);
+        return reached ? toDayNumber(reached) : startDay + target / ddPerDay;
       });
+      notes.push(`intervals in degree-days above ${ddOptions.baseTemp}° (${ddOptions.method ?? DEFAULT_DEGREE_DAY_METHOD} averaging)`);
+    } else if (fromBuds) {
+      seasons = fromBudsInterval.n;
+      weight = fromBudsInterval.weight;
+      usual = logNormalAfter(toDayNumber(start), fromBudsInterval);
+    } else {
+      const sh = shrinkLogInterval(matureToOpenDays, genusM2O, BLOOM_SHRINKAGE_K, shrinkOptions);
       seasons = sh.n;
       weight = sh.weight;
-      const predictedMaturity = !fromBuds && !mature;
-      const extraSd = predictedMaturity ? MATURITY_DATE_SD_DAYS : 0;
-      // Once the lead has matured, the plant's usual first-flower day is blended in (unless the
-      // caller asks for the intervals alone). Not before: a lead still growing cannot flower on
-      // the plant's usual day however the calendar runs. Buds → open is short and tight on its own.
-      const blend =
-        stage === 'mature' && input.seasonalPrior !== false
-          ? blendWithSeason(start, lead.season, sh, genusM2O, past, extraSd, daysBetween(start, today))
-          : null;
-      const w = blend ?? windowFrom(start, sh, extraSd, daysBetween(start, today));
-      firstOpen = w.window;
-      elapsedNote(w.pBefore, start);
+      const fromPrediction = !mature;
+      const extraSd = fromPrediction ? (predicted?.sdDays ?? MATURITY_DATE_SD_DAYS) : 0;
+      // The plant's usual first-flower day is blended in (unless the caller asks for the
+      // intervals alone), weighted by how well each did on its past seasons; a predicted maturity
+      // date's spread counts against the interval. A lead behind its time still cannot flower
+      // before it matures and its buds open (the floors below).
+      const blend = input.seasonalPrior !== false ? blendWithSeason(start, lead.season, sh, genusM2O, past, extraSd) : null;
+      const interval = logNormalAfter(toDayNumber(start), sh, extraSd);
+      // The blend is normal and can be tight; a share SEASON_OFF_HABIT_WEIGHT of a season off the
+      // plant's habit — its own median interval with the genus' whole spread — keeps a late bloom
+      // possible, and sets how late is still plausible.
+      const offHabit = logNormalAfter(toDayNumber(start), { mu: sh.mu, sigma: Math.max(sh.sigma, genusM2O.sigma) }, extraSd);
+      usual = blend ? mixture(normalAfter(toDayNumber(start), blend.centreDays, blend.sdDays), offHabit, 1 - SEASON_OFF_HABIT_WEIGHT) : interval;
       if (blend) {
         notes.push(
           `blended with the plant's usual first-flower day (${blend.seasons} earlier ${blend.seasons === 1 ? 'bloom' : 'blooms'}, weight ${Math.round(blend.seasonalWeight * 100)}%); window sized from how far its past seasons were off`,
         );
       }
-      if (predictedMaturity) notes.push(`from the predicted maturity date ${start}`);
+      if (fromPrediction) notes.push(`from the predicted maturity date ${start}`);
     }
-    if (firstOpen) firstOpen = notBefore(firstOpen, today);
   }
+
+  let timing: BloomTiming = open ? 'record' : 'none';
+  let firstOpen: DateWindow | null = open ? { p10: open, p50: open, p90: open } : null;
+  let late: BloomForecast['late'] = null;
+  let latestPlausible: IsoDate | null = null;
+  let heldOutHalfWidthDays: number | null = null;
+  // Share of the usual timing that what is known has ruled out (`goneAll`, for the quantiles), and
+  // the same counted only from the start of the interval (`gone`): a normal blend puts a little
+  // weight before the lead matured, which no day can rule out as evidence.
+  let gone = 0;
+  let goneAll = 0;
+  if (usual) {
+    if (stage === 'sheath_empty' || stage === 'sheath_dry') {
+      usual = widened(usual, EMPTY_SHEATH_WIDEN);
+      notes.push(
+        `sheath ${stage === 'sheath_empty' ? 'empty' : 'dry'} at the look of ${state.sheath.on}: it may still bud later, or wait for next season (some bloom from a dry sheath months later — common practice)`,
+      );
+    }
+    // Buds not there at a look that would have shown them (or, for a lead still growing, not
+    // before it matures): no flower before buds formed after that have opened.
+    const noBudsUntil = stage === 'growing' ? fromDayNumber(usualStart) : state.noBudsOn;
+    const afterNoBuds = noBudsUntil ? logNormalAfter(toDayNumber(noBudsUntil), budsStillToCome) : null;
+    // Ruled out by what was seen: every day before today, and (averaged over how long buds still to
+    // come take) every day before buds missing at a look could open. A growing lead's floor is a
+    // bound on the window, not evidence, so it rules nothing out for the chance.
+    const seenNoBuds = state.noBudsOn ? logNormalAfter(toDayNumber(state.noBudsOn), budsStillToCome) : null;
+    goneAll = seenNoBuds ? meanShareBefore(usual, seenNoBuds, todayDay) : shareBy(usual, todayDay - 0.5);
+    const beforeStart = shareBy(usual, usualStart - 0.5);
+    gone = beforeStart < 1 ? Math.max(0, goneAll - beforeStart) / (1 - beforeStart) : 1;
+    const likely = usual.dayAt(0);
+    latestPlausible = fromDayNumber(Math.round(usual.dayAt(normalQuantile(LATEST_PLAUSIBLE_LEVEL))));
+    // Probably not this season only once the calendar itself is past its latest plausible day:
+    // buds still to come move and widen the window, but an empty sheath may yet bud late.
+    const goneByToday = beforeStart < 1 ? Math.max(0, shareBy(usual, todayDay - 0.5) - beforeStart) / (1 - beforeStart) : 1;
+    if (goneByToday >= LATEST_PLAUSIBLE_LEVEL) {
+      timing = 'unlikely';
+      notes.push(`not open by ${today} and past ${latestPlausible}, the latest date its record makes plausible`);
+    } else {
+      const at = (q: number) => {
+        const z = normalQuantile(q);
+        const day = Math.max(conditionedDay(usual!, q, goneAll), afterNoBuds ? afterNoBuds.dayAt(z) : -Infinity, todayDay);
+        return fromDayNumber(Math.round(day));
+      };
+      firstOpen = { p10: at(0.1), p50: at(0.5), p90: at(0.9) };
+      timing = likely < todayDay ? 'late' : 'forecast';
+      if (timing === 'late') late = { likelyWas: fromDayNumber(Math.round(likely)), daysLate: todayDay - Math.round(likely) };
+      if (gone > 1e-4) {
+        notes.push(`not open by ${today}: window is what its record leaves after today (${pct(gone)} of such intervals would have been over by now)`);
+      }
+      const errors = input.heldOutErrors?.[forecastStageOf(stage) ?? 'growing'];
+      if (errors && errors.length >= MIN_HELD_OUT_ERRORS) {
+        const half = Z80_HALF * Math.sqrt(meanSquare(errors));
+        const halfNow = (toDayNumber(firstOpen.p90) - toDayNumber(firstOpen.p10)) / 2;
+        if (half > halfNow) {
+          firstOpen = widenWindow(firstOpen, half, today);
+          heldOutHalfWidthDays = half;
+          notes.push(`window widened to what this plant's past forecasts at this stage support (±${Math.round(half)} days)`);
+        }
+      }
+    }
+  }
+  if (pastSeason) notes.push(`a lead of the ${lead.season} season, long past: no forecast`);
 
   // Fading.
   const o2f = shrinkLogInterval(
@@ -633,55 +844,7 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   );
   const lastFadedLikely = faded ?? (firstOpen ? addDays(firstOpen.p50, Math.round(Math.exp(o2f.mu))) : null);
 
-  // Chance.
-  const chanceReasons: string[] = [];
-  let chance: number;
-  if (open || buds) {
-    chance = open ? 1 : BUDS_OPEN_CHANCE;
-    chanceReasons.push(faded ? 'bloomed this season' : open ? 'in flower' : 'buds visible (buds can still blast)');
-  } else if (lost) {
-    chance = 0;
-    chanceReasons.push(abortFlag && lead.status !== 'dried_off' && lead.status !== 'rotted' && lead.status !== 'removed' ? abortFlag.reason : `lead ${lead.status.replace('_', ' ')}`);
-  } else {
-    const finished = past.filter((p) => p.tallestMm !== null);
-    const bloomedN = finished.filter((p) => p.bloomed).length;
-    chance = (bloomedN + BLOOM_SHRINKAGE_K * genus.bloomRate) / (finished.length + BLOOM_SHRINKAGE_K);
-    chanceReasons.push(
-      finished.length
-        ? `bloomed ${bloomedN} of ${finished.length} earlier seasons (genus rate ${Math.round(genus.bloomRate * 100)}%)`
-        : `no bloom record: genus rate ${Math.round(genus.bloomRate * 100)}%`,
-    );
-    const sheath = currentMs.length ? currentMs[currentMs.length - 1].sheath : 'none';
-    if (sheath === 'dry') {
-      const dryBloomer = genus.bloomHabit === 'from_dry_sheath' || past.some((p) => p.bloomedFromDrySheath);
-      if (genus.bloomHabit === 'from_green_sheath') {
-        chance *= CHANCE_FACTORS.drySheathGreenBloomer;
-        chanceReasons.push('sheath dried without buds (this genus flowers from green sheaths)');
-      } else if (!dryBloomer) {
-        chance *= CHANCE_FACTORS.drySheathUnknownHabit;
-        chanceReasons.push('dry sheath; not by itself a lost bloom for winter and spring bloomers');
-      } else {
-        chanceReasons.push('dry sheath, as in seasons it bloomed from');
-      }
-    } else if (sheath === 'empty') {
-      chance *= CHANCE_FACTORS.emptySheath;
-      chanceReasons.push('sheath looks empty');
-    } else if (sheath === 'none' && mature && genus.bloomHabit !== 'no_sheath') {
-      chance *= CHANCE_FACTORS.noSheathOnMatureLead;
-      chanceReasons.push('mature without a sheath');
-    }
-    if (sizeVsLast) {
-      const ratio = sizeVsLast.ratio;
-      if (ratio < 0.7) {
-        chance *= CHANCE_FACTORS.muchSmallerLead;
-        chanceReasons.push(`lead at ${Math.round(ratio * 100)}% of last season's size${sizeVsLast.basisText}`);
-      } else if (ratio < 0.9) {
-        chance *= CHANCE_FACTORS.smallerLead;
-        chanceReasons.push(`lead at ${Math.round(ratio * 100)}% of last season's size${sizeVsLast.basisText}`);
-      }
-    }
-    chance = Math.min(CHANCE_BOUNDS[1], Math.max(CHANCE_BOUNDS[0], chance));
-  }
+  const { chance, chanceReasons } = bloomChance({ state, lead, genus, past, sizeVsLast, gone, timing, pastSeason, latestPlausible, today });
 
   // Flowers.
   const withFlowers = past.filter((p) => p.flowerCount !== null && p.flowerCount > 0);
@@ -704,16 +867,99 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   return {
     leadId: lead.id,
     stage,
-    stageDate: open ?? buds ?? mature,
+    stageDate: state.stageDate,
+    timing,
     firstOpen,
+    late,
+    latestPlausible: timing === 'forecast' || timing === 'late' || timing === 'unlikely' ? latestPlausible : null,
     lastFadedLikely,
     mode,
     chance,
     chanceReasons,
     expectedFlowers: { count, perSpike, spikes, basis },
     history: { seasons, weight },
+    shareGone: gone,
+    heldOutHalfWidthDays,
     notes,
   };
+}
+
+/** The chance that the lead flowers this season, and why (see `forecastBloom`). */
+function bloomChance(input: {
+  state: LeadState;
+  lead: BloomHistory['lead'];
+  genus: GenusDefaults;
+  past: readonly PastIntervals[];
+  sizeVsLast: { ratio: number; basisText: string } | null;
+  gone: number;
+  timing: BloomTiming;
+  pastSeason: boolean;
+  latestPlausible: IsoDate | null;
+  today: IsoDate;
+}): { chance: number; chanceReasons: string[] } {
+  const { state, lead, genus, past, sizeVsLast, gone } = input;
+  const reasons: string[] = [];
+  if (state.open) return { chance: 1, chanceReasons: [state.faded ? 'bloomed this season' : 'in flower'] };
+  if (state.lost) {
+    const byFlag = state.abortFlag && lead.status !== 'dried_off' && lead.status !== 'rotted' && lead.status !== 'removed';
+    return { chance: 0, chanceReasons: [byFlag ? state.abortFlag!.reason : `lead ${lead.status.replace('_', ' ')}`] };
+  }
+  if (input.pastSeason) return { chance: 0, chanceReasons: [`no flowering recorded for this ${lead.season} lead`] };
+
+  let chance: number;
+  if (state.buds) {
+    chance = BUDS_OPEN_CHANCE;
+    reasons.push(`buds seen ${state.buds} (buds can still blast)`);
+  } else {
+    const finished = past.filter((p) => p.tallestMm !== null);
+    const bloomedN = finished.filter((p) => p.bloomed).length;
+    chance = (bloomedN + BLOOM_SHRINKAGE_K * genus.bloomRate) / (finished.length + BLOOM_SHRINKAGE_K);
+    reasons.push(
+      finished.length
+        ? `bloomed ${bloomedN} of ${finished.length} earlier seasons (genus rate ${Math.round(genus.bloomRate * 100)}%)`
+        : `no bloom record: genus rate ${Math.round(genus.bloomRate * 100)}%`,
+    );
+    const sheath = state.sheath.sheath;
+    if (sheath === 'dry') {
+      const dryBloomer = genus.bloomHabit === 'from_dry_sheath' || past.some((p) => p.bloomedFromDrySheath);
+      if (genus.bloomHabit === 'from_green_sheath') {
+        chance *= CHANCE_FACTORS.drySheathGreenBloomer;
+        reasons.push('sheath dried without buds (this genus flowers from green sheaths)');
+      } else if (!dryBloomer) {
+        chance *= CHANCE_FACTORS.drySheathUnknownHabit;
+        reasons.push('dry sheath; not by itself a lost bloom for winter and spring bloomers');
+      } else {
+        reasons.push('dry sheath, as in seasons it bloomed from');
+      }
+    } else if (sheath === 'empty') {
+      chance *= CHANCE_FACTORS.emptySheath;
+      reasons.push('sheath looks empty: it may still bud later, or wait for next season');
+    } else if (sheath === 'none' && state.mature && flowersFromSheath(genus)) {
+      chance *= CHANCE_FACTORS.noSheathOnMatureLead;
+      reasons.push('mature without a sheath');
+    }
+    if (sizeVsLast) {
+      const ratio = sizeVsLast.ratio;
+      if (ratio < 0.7) {
+        chance *= CHANCE_FACTORS.muchSmallerLead;
+        reasons.push(`lead at ${Math.round(ratio * 100)}%${sizeVsLast.basisText}`);
+      } else if (ratio < 0.9) {
+        chance *= CHANCE_FACTORS.smallerLead;
+        reasons.push(`lead at ${Math.round(ratio * 100)}%${sizeVsLast.basisText}`);
+      }
+    }
+  }
+  // What has not happened yet: the share of its usual timing already ruled out counts against it.
+  if (gone > 1e-4) {
+    const ahead = 1 - gone;
+    chance = (chance * ahead) / (chance * ahead + 1 - chance);
+    reasons.push(
+      input.timing === 'unlikely'
+        ? `not open by ${input.today}, past the latest date its record makes plausible (${input.latestPlausible})`
+        : `not open yet: ${pct(gone)} of its usual timing has gone by`,
+    );
+  }
+  return { chance: Math.min(CHANCE_BOUNDS[1], Math.max(CHANCE_BOUNDS[0], chance)), chanceReasons: reasons };
 }
 
 /**
@@ -736,7 +982,7 @@ function sizeAgainstLastSeason(
   const fitted = fit && fit.method !== 'insufficient' && fit.matureHeightMm > 0 ? fit.matureHeightMm : null;
   if (fitted !== null || !growing) {
     const size = fitted ?? currentTallest;
-    const basisText = fitted !== null && growing ? ' (predicted mature height)' : '';
+    const basisText = fitted !== null && growing ? " of last season's final size (by its predicted mature height)" : " of last season's final size";
     return {
       sizeVsLast: last && size !== null && size > 0 ? { ratio: size / last.tallestMm!, basisText } : null,
       expectedMatureSize: size,
@@ -749,10 +995,10 @@ function sizeAgainstLastSeason(
   const age = daysBetween(current.lead.firstSeen, latest.date);
   const same = heightAtAge(lastHistory, age);
   let ratio: number | null = same !== null && same > 0 ? latest.heightMm / same : null;
-  let basisText = ` at the same age (${age} days)`;
+  let basisText = ` of last season's lead at the same age (${age} days)`;
   if (ratio === null && latest.heightMm > last.tallestMm!) {
     ratio = latest.heightMm / last.tallestMm!;
-    basisText = ' (already taller than its final height)';
+    basisText = " of last season's final size (already taller than it)";
   }
   if (ratio === null) return { sizeVsLast: null, expectedMatureSize: null };
   return { sizeVsLast: { ratio, basisText }, expectedMatureSize: Math.max(latest.heightMm, ratio * last.tallestMm!) };

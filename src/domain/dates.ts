@@ -109,6 +109,12 @@ export function dayOfSeason(date: IsoDate, seasonStartMonth = 1): number {
   return day - start;
 }
 
+/** The growth year a date falls in, for a collection whose season starts in `startMonth` (1–12). */
+export function seasonOf(date: IsoDate, startMonth: number): number {
+  const y = digits(date, 0, 4);
+  return digits(date, 5, 7) >= startMonth ? y : y - 1;
+}
+
 /**
  * The same month and day `years` later (earlier when negative); 29 February becomes 28 February
  * in a common year. How a past season's date is carried to another season.

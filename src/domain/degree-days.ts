@@ -101,10 +101,12 @@ export function recentDailyDegreeDays(
 }
 
 /**
- * The date on which `target` degree-days have accumulated since `start` (the day itself counts),
- * using actual readings up to `asOf` (exclusive) and, after that, the recent normal per day
- * (`recentDailyDegreeDays`). Returns null when the target cannot be reached (no readings, or a
- * normal of zero) within `maxDays`.
+ * The first date D by which `target` degree-days have accumulated since `start`, counted as
+ * `sumDegreeDays` counts an interval: the days from `start` (inclusive) to D (exclusive). So a
+ * past interval measured from A to B gives back B when its sum is the target: the same count in
+ * both directions. Uses actual readings up to `asOf` (exclusive) and, after that, the recent
+ * normal per day (`recentDailyDegreeDays`). Returns null when the target cannot be reached (no
+ * readings, or a normal of zero) within `maxDays`.
  */
 export function dateReachingDegreeDays(
   readings: readonly Pick<TemperatureReading, 'date' | 'minC' | 'maxC'>[],
@@ -130,7 +132,8 @@ export function dateReachingDegreeDays(
       dd = normal;
     }
     sum += dd;
-    if (sum >= target) return date;
+    // The day that completes the target is the last one counted: D is the day after it.
+    if (sum >= target) return addDays(date, 1);
   }
   return null;
 }

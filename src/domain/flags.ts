@@ -97,7 +97,7 @@ export function leadFlags(input: FlagInput): LeadFlag[] {
   const priorHeights = (input.priorShapes ?? []).map((s) => s.matureHeightMm).filter((v): v is number => typeof v === 'number' && v > 0);
   let referenceMm = lastSeasonTallest ?? (priorHeights.length ? median(priorHeights) : genus.matureHeightMm);
   const referenceName =
-    lastSeasonTallest !== null ? "last season's size" : priorHeights.length ? "the plant's usual size" : `the usual ${genus.genus} size`;
+    lastSeasonTallest !== null ? "last season's final size" : priorHeights.length ? "the plant's usual size" : `the usual ${genus.genus} size`;
   const smallerReason = expectedSmaller(lead, plant, input.plantLeads.map((h) => h.lead));
   if (smallerReason) referenceMm *= EXPECTED_SMALLER_ALLOWANCE;
 

@@ -36,8 +36,14 @@ export interface GenusDefaults {
   bloomHabit: BloomHabit;
   /** Lead mature (sheath formed, or bulb hardened) → buds visible. */
   matureToBuds: StageInterval;
-  /** Buds visible → first flower open. */
+  /** Buds visible (out of the sheath, or on the spike) → first flower open. */
   budsToOpen: StageInterval;
+  /**
+   * Buds first seen inside the sheath (against the light) → first flower open; a genus without a
+   * sheath has none. They still have to push out of the sheath, so this runs longer than
+   * `budsToOpen`.
+   */
+  sheathBudsToOpen: StageInterval | null;
   /** First flower open → last flower faded. */
   openToFaded: StageInterval;
   /** Flowers per spike on a lead of typical size. */
@@ -73,6 +79,9 @@ export const CATTLEYA_DEFAULTS: GenusDefaults = {
   bloomHabit: 'either',
   matureToBuds: { medianDays: 45, logSd: 0.8 },
   budsToOpen: { medianDays: 21, logSd: 0.3 },
+  // Buds seen in the sheath usually push out in two to four weeks, then open in two to four
+  // more — common practice (from memory).
+  sheathBudsToOpen: { medianDays: 35, logSd: 0.35 },
   openToFaded: { medianDays: 35, logSd: 0.25 },
   flowersPerSpike: 3,
   bloomRate: 0.8,
@@ -107,6 +116,7 @@ export const DENDROBIUM_DEFAULTS: GenusDefaults = {
   bloomHabit: 'no_sheath',
   matureToBuds: { medianDays: 60, logSd: 0.8 },
   budsToOpen: { medianDays: 28, logSd: 0.35 },
+  sheathBudsToOpen: null,
   openToFaded: { medianDays: 30, logSd: 0.3 },
   flowersPerSpike: 8,
   bloomRate: 0.7,
@@ -129,6 +139,7 @@ export const STANHOPEA_DEFAULTS: GenusDefaults = {
   bloomHabit: 'no_sheath',
   matureToBuds: { medianDays: 40, logSd: 0.8 },
   budsToOpen: { medianDays: 30, logSd: 0.3 },
+  sheathBudsToOpen: null,
   openToFaded: { medianDays: 4, logSd: 0.3 },
   flowersPerSpike: 4,
   bloomRate: 0.7,
@@ -148,6 +159,8 @@ export const BRASSAVOLA_DEFAULTS: GenusDefaults = {
   bloomHabit: 'from_green_sheath',
   matureToBuds: { medianDays: 30, logSd: 0.7 },
   budsToOpen: { medianDays: 18, logSd: 0.3 },
+  // As the Cattleya alliance, a little quicker — common practice (from memory).
+  sheathBudsToOpen: { medianDays: 30, logSd: 0.35 },
   openToFaded: { medianDays: 21, logSd: 0.3 },
   flowersPerSpike: 4,
   bloomRate: 0.8,

@@ -81,6 +81,23 @@ export const MAX_CONDITION_NUMBER = 1e12;
 export const PLANT_SHAPE_SD_FLOOR = 0.25;
 /** With fewer than three earlier leads, their shape spread is this share of the genus spread (chosen: a plant varies less than its genus). */
 export const PLANT_SHAPE_SD_FEW = 0.4;
+/**
+ * Robust refit: Huber's weight function with the usual tuning constant 1.345 (95% efficiency at
+ * the normal; Huber 1981, Robust Statistics, §7.8), by iteratively reweighted least squares. It
+ * runs only once some point lies more than ROBUST_TRIGGER robust standard deviations off the
+ * least-squares curve (and ROBUST_MIN_SHARE of its height), so an ordinary fit is the plain
+ * least-squares one.
+ */
+export const HUBER_C = 1.345;
+/** Standardised residual (against 1.4826 × the median absolute deviation) that starts the robust refit (chosen). */
+export const ROBUST_TRIGGER = 3;
+/**
+ * …and only when that point is also off by more than this share of the curve's height there: a
+ * ruler reads a bulb to a few per cent, so an ordinary scatter never starts it (chosen).
+ */
+export const ROBUST_MIN_SHARE = 0.15;
+/** Fewest measurements for a robust refit: a median absolute deviation needs a few residuals (chosen). */
+export const MIN_POINTS_ROBUST = 6;
 
 /** Logistic fraction 1/(1 + exp((m − t)/s)), computed without overflow. */
 export function logisticFraction(t: number, midpointDays: number, scaleDays: number): number {
@@ -227,10 +244,39 @@ interface Candidate {
   df: number;
   sse: number;
   notes: string[];
+  /** Indexes (into the fitted points) the robust refit down-weighted, when it ran. */
+  downWeighted?: number[];
 }
 
-function clampedWidth(c: Candidate): number {
-  return c.a + c.halfWidth - Math.max(0, c.a - c.halfWidth);
+/**
+ * The mature height and 80% interval a candidate reports on points `h`: A ± half width, low at
+ * least 0; and since the lead is at least as tall as it has been measured (within the fit's own
+ * scatter), a curve levelling off below the tallest height kept at full weight is raised to it,
+ * the interval moving up with it.
+ */
+function reported(c: Candidate, h: readonly number[]): { a: number; low: number; high: number; raisedTo: number | null } {
+  const a0 = Number.isFinite(c.a) && c.a > 0 ? c.a : 0;
+  const half = Number.isFinite(c.halfWidth) && c.halfWidth >= 0 ? c.halfWidth : a0;
+  let a = a0;
+  let low = Math.max(0, a0 - half);
+  let high = a0 + half;
+  const spread = c.residualSd !== null && Number.isFinite(c.residualSd) ? c.residualSd : MEASUREMENT_SD_PRIOR_MM;
+  const tallest = tallestNotDownWeighted(h, c.downWeighted);
+  let raisedTo: number | null = null;
+  if (tallest !== null && a < tallest - spread) {
+    // The interval moves up with the estimate; its width (the fit's certainty) stays.
+    const shift = tallest - a;
+    a = tallest;
+    raisedTo = tallest;
+    low += shift;
+    high += shift;
+  }
+  return { a, low: Math.min(low, a), high, raisedTo };
+}
+
+function clampedWidth(c: Candidate, h: readonly number[]): number {
+  const r = reported(c, h);
+  return r.high - r.low;
 }
 
 function scaleOnly(t: number[], h: number[], shape: BorrowedShape): Candidate | null {
@@ -310,6 +356,11 @@ function freeFit(t: number[], h: number[], shape: BorrowedShape, scaleOnlyA: num
     [Math.max(maxH * 1.2, 1), (tMin + tMax) / 2, Math.max((tMax - tMin) / 6, 1)],
   ];
   if (scaleOnlyA !== null && scaleOnlyA > 0) starts.push([scaleOnlyA, shape.m, shape.s]);
+  // Fallbacks when those all end in a step (a large borrowed height can pull the solver there):
+  // just above the tallest with the borrowed shape, and a shape read off the data themselves.
+  if (scaleOnlyA !== null && scaleOnlyA > maxH * 1.05) starts.push([Math.max(maxH * 1.05, 1), shape.m, shape.s]);
+  const fromData = shapeFromData(t, h, maxH);
+  if (fromData) starts.push([Math.max(maxH * 1.05, 1), fromData.m, fromData.s]);
   // Starts in order of how often they succeed; the first converged, plausible fit is kept.
   let best: ReturnType<typeof levenbergMarquardt> | null = null;
   let rejected = 'free fit did not converge';
@@ -325,8 +376,10 @@ function freeFit(t: number[], h: number[], shape: BorrowedShape, scaleOnlyA: num
     break;
   }
   if (!best || !best.standardErrors) return { rejected };
+  const robust = robustRefit(t, h, best);
+  if (robust) best = robust.result;
   const [a, m, s] = best.params;
-  const se = best.standardErrors[0];
+  const se = best.standardErrors![0];
   const q = studentTQuantile(0.5 + INTERVAL_COVERAGE / 2, best.degreesOfFreedom);
   const halfWidth = q * se;
   if (!Number.isFinite(halfWidth)) return { rejected: 'free fit has no finite interval' };
@@ -341,7 +394,67 @@ function freeFit(t: number[], h: number[], shape: BorrowedShape, scaleOnlyA: num
     df: best.degreesOfFreedom,
     sse: best.sse,
     notes: [],
+    downWeighted: robust?.downWeighted,
   };
+}
+
+/**
+ * Iteratively reweighted least squares with Huber weights (HUBER_C), started from the plain fit
+ * `ls` when a point lies more than ROBUST_TRIGGER robust SDs off it: a mistyped height (a mature
+ * 184 mm bulb saved as 100 mm) then pulls the curve far less. Scale: 1.4826 × the median absolute
+ * residual of the plain fit, at least 1 mm (a ruler's reading). Null when no point is that far
+ * off, with too few points, or when the weighted fit fails (the plain fit stands).
+ */
+function robustRefit(t: readonly number[], h: readonly number[], ls: ReturnType<typeof levenbergMarquardt>): { result: ReturnType<typeof levenbergMarquardt>; downWeighted: number[] } | null {
+  if (t.length < MIN_POINTS_ROBUST) return null;
+  const fitted = t.map((ti) => LOGISTIC_MODEL.value(ti, ls.params));
+  const residuals = fitted.map((f, i) => h[i] - f);
+  const scale = Math.max(1, 1.4826 * median(residuals.map((r) => Math.abs(r))));
+  const farOff = (r: number, i: number) => Math.abs(r) > ROBUST_TRIGGER * scale && Math.abs(r) > ROBUST_MIN_SHARE * Math.max(fitted[i], 10);
+  if (!residuals.some(farOff)) return null;
+  const index = t.map((_, i) => i);
+  let weights = residuals.map(() => 1);
+  let result = ls;
+  for (let iteration = 0; iteration < 10; iteration++) {
+    const r = t.map((ti, i) => h[i] - LOGISTIC_MODEL.value(ti, result.params));
+    const next = r.map((ri) => (Math.abs(ri) <= HUBER_C * scale ? 1 : (HUBER_C * scale) / Math.abs(ri)));
+    const settled = next.every((w, i) => Math.abs(w - weights[i]) < 1e-6);
+    weights = next;
+    if (settled && iteration > 0) break;
+    const root = weights.map(Math.sqrt);
+    const model: LeastSquaresModel = {
+      value: (i, p) => root[i] * LOGISTIC_MODEL.value(t[i], p),
+      gradient: (i, p, out) => {
+        LOGISTIC_MODEL.gradient(t[i], p, out);
+        for (let j = 0; j < out.length; j++) out[j] *= root[i];
+      },
+    };
+    const refit = levenbergMarquardt(model, index, h.map((hi, i) => root[i] * hi), result.params, { maxIterations: 300, stepTolerance: 1e-9, sseTolerance: 1e-10 });
+    if (!refit.converged || !refit.standardErrors || implausibility(refit, maxOf(h), maxOf(t))) return null;
+    result = refit;
+  }
+  const downWeighted = weights.map((w, i) => (w < 1 ? i : -1)).filter((i) => i >= 0);
+  return downWeighted.length ? { result, downWeighted } : null;
+}
+
+/**
+ * A logistic shape read off the points: the midpoint where the heights first pass half the
+ * tallest, the scale from where they pass a quarter and three quarters (a logistic takes 2·ln 3
+ * scales between the two). Null when the points do not span both.
+ */
+function shapeFromData(t: readonly number[], h: readonly number[], maxH: number): { m: number; s: number } | null {
+  const ageAt = (share: number) => {
+    for (let i = 1; i < t.length; i++) {
+      const target = share * maxH;
+      if (h[i - 1] < target && h[i] >= target) return t[i - 1] + ((target - h[i - 1]) * (t[i] - t[i - 1])) / (h[i] - h[i - 1]);
+    }
+    return null;
+  };
+  const q1 = ageAt(0.25);
+  const mid = ageAt(0.5);
+  const q3 = ageAt(0.75);
+  if (mid === null || q1 === null || q3 === null || !(q3 > q1)) return null;
+  return { m: mid, s: Math.max(1, (q3 - q1) / (2 * Math.log(3))) };
 }
 
 function priorOnly(shape: BorrowedShape, noMeasurements: boolean): Candidate {
@@ -393,8 +506,13 @@ function qualityOf(method: FitMethod, a: number, halfWidth: number): FitQuality 
  *   and also whenever its interval is narrower than the fitted ones while still reaching the
  *   tallest measurement (early in the season one or two heights say less than the record).
  *
- * Guarantees: no NaN, A ≥ 0, 0 ≤ low ≤ A ≤ high. Adding a measurement that lies on the returned
- * curve never widens the interval (for a lead that already has a measurement).
+ * - A curve levelling off below the tallest measurement kept at full weight (by more than its own
+ *   residual spread) is raised to it, its interval moving up with it; a measurement far off a free
+ *   fit's curve counts less (`robustRefit`). Both are said in the notes.
+ *
+ * Guarantees: no NaN, A ≥ 0, 0 ≤ low ≤ A ≤ high, A ≥ the tallest measurement less the residual
+ * spread. Adding a measurement that lies on the returned curve never widens the interval (for a
+ * lead that already has a measurement, and a curve that was not raised).
  */
 export function fitLeadCurve(
   measurements: readonly Measurement[],
@@ -408,6 +526,7 @@ export function fitLeadCurve(
   const end = countOnOrBefore(dated, today);
   const t: number[] = [];
   const h: number[] = [];
+  const dates: IsoDate[] = [];
   let firstSeenDay: number | null = null;
   for (let i = 0; i < end; i++) {
     const x = dated.ms[i];
@@ -415,6 +534,7 @@ export function fitLeadCurve(
     firstSeenDay ??= toDayNumber(lead.firstSeen);
     t.push(dated.days[i] - firstSeenDay);
     h.push(x.heightMm);
+    dates.push(x.date);
   }
   const n = t.length;
   const shape = borrowedShape(options.priorShapes, genusDefaults);
@@ -430,7 +550,7 @@ export function fitLeadCurve(
   if (n >= MIN_POINTS_FREE_FIT && distinctAges >= MIN_POINTS_FREE_FIT) {
     const free = freeFit(t, h, shape, scaled ? scaled.a : null);
     if ('rejected' in free) notes.push(free.rejected);
-    else if (!chosen || clampedWidth(free) <= clampedWidth(chosen)) chosen = free;
+    else if (!chosen || clampedWidth(free, h) <= clampedWidth(chosen, h)) chosen = free;
     else notes.push('free fit less certain than the borrowed shape');
   } else if (n > 0) {
     notes.push(`only ${n} measurement${n === 1 ? '' : 's'} at ${distinctAges} age${distinctAges === 1 ? '' : 's'}: shape not fitted`);
@@ -441,13 +561,18 @@ export function fitLeadCurve(
   // It is admissible only while its interval still reaches the tallest measurement.
   const prior = priorOnly(shape, n === 0);
   const maxH = h.length > 0 ? maxOf(h) : 0;
-  if (!chosen || (prior.a + prior.halfWidth >= maxH && clampedWidth(prior) < clampedWidth(chosen))) {
+  if (!chosen || (prior.a + prior.halfWidth >= maxH && clampedWidth(prior, h) < clampedWidth(chosen, h))) {
     if (chosen) notes.push('measurements still too early to scale the curve: typical mature size shown');
     chosen = prior;
   }
 
-  const a = Number.isFinite(chosen.a) && chosen.a > 0 ? chosen.a : 0;
-  const halfWidth = Number.isFinite(chosen.halfWidth) && chosen.halfWidth >= 0 ? chosen.halfWidth : a;
+  if (chosen.downWeighted?.length) {
+    const which = chosen.downWeighted.map((i) => `${dates[i]} (${h[i]} mm)`).join(', ');
+    notes.push(`${chosen.downWeighted.length === 1 ? 'one measurement lies' : `${chosen.downWeighted.length} measurements lie`} far off the curve and counted less: ${which}`);
+  }
+  const { a, low, high, raisedTo } = reported(chosen, h);
+  const halfWidth = raisedTo === null && Number.isFinite(chosen.halfWidth) && chosen.halfWidth >= 0 ? chosen.halfWidth : (high - low) / 2;
+  if (raisedTo !== null) notes.push(`mature height raised to the tallest measurement (${Math.round(raisedTo)} mm): the curve levelled off below it`);
   const maturityDays = chosen.m + chosen.s * LN19;
   let rSquared: number | null = null;
   if (chosen.method !== 'insufficient' && h.length >= 2) {
@@ -458,7 +583,7 @@ export function fitLeadCurve(
   return {
     method: chosen.method,
     matureHeightMm: a,
-    interval80: { lowMm: Math.max(0, a - halfWidth), highMm: a + halfWidth },
+    interval80: { lowMm: Math.min(low, a), highMm: high },
     standardErrorMm: chosen.se !== null && Number.isFinite(chosen.se) ? chosen.se : null,
     midpointDays: chosen.m,
     scaleDays: chosen.s,
@@ -473,6 +598,16 @@ export function fitLeadCurve(
     expectedHeightTodayMm: logisticHeight(ageDaysToday, a, chosen.m, chosen.s),
     notes: [...candidateNotes(chosen), ...notes],
   };
+}
+
+/** Tallest height among the fitted points the robust refit kept at full weight; null without points. */
+function tallestNotDownWeighted(h: readonly number[], downWeighted: readonly number[] | undefined): number | null {
+  let best: number | null = null;
+  for (let i = 0; i < h.length; i++) {
+    if (downWeighted?.includes(i)) continue;
+    if (best === null || h[i] > best) best = h[i];
+  }
+  return best;
 }
 
 /**

@@ -1,4 +1,3 @@
-import { MONTH_ABBREVIATIONS } from './format';
 
 /** Today's local calendar date as `YYYY-MM-DD` (the grower's own day, not UTC's). */
 export function localToday(now: Date = new Date()): string {
@@ -9,14 +8,7 @@ export function localToday(now: Date = new Date()): string {
 }
 
 /** A calendar date written for people, e.g. "14 Mar 2026" (see format.ts on why not Intl). */
-export function formatDate(date: string | null | undefined): string {
-  if (!date) return '—';
-  const [y, m, d] = date.split('-').map(Number);
-  return `${d} ${MONTH_ABBREVIATIONS[m - 1]} ${y}`;
-}
+export { formatDate } from '@/domain/words';
 
-/** The growth year a date falls in, for a collection whose season starts in `startMonth`. */
-export function seasonOf(date: string, startMonth: number): number {
-  const [y, m] = date.split('-').map(Number);
-  return m >= startMonth ? y : y - 1;
-}
+/** The growth year a date falls in (the engine's own rule). */
+export { seasonOf } from '@/domain/dates';

@@ -1,7 +1,7 @@
-const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];
+import { MONTH_ABBREVIATIONS, MONTH_NAMES as MONTHS } from '@/domain/words';
+
+export { MONTH_ABBREVIATIONS };
 const WEEKDAYS = ['Sunday', 'Monday', 'Tuesday', 'Wednesday', 'Thursday', 'Friday', 'Saturday'];
-/** Three-letter month names, index 0 = January. */
-export const MONTH_ABBREVIATIONS = MONTHS.map((name) => name.slice(0, 3));
 
 // Dates are written with our own English names rather than through Intl: the first
 // Intl.DateTimeFormat a page builds loads the locale's data, about 20 ms of main thread on a

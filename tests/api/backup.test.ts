@@ -68,7 +68,7 @@ beforeAll(async () => {
   const owner = browser(server.url, await sessionCookieFor(testDb(), user.id));
   const at = (p: string) => `/api/collections/${world.collectionId}${p}`;
   expect((await owner.put(at(`/leads/${records.lead.id}/bloom`), buildBloomInput())).status).toBe(201);
-  expect((await owner.post(at(`/leads/${records.lead.id}/sheath`), { date: daysAgo(0), sheath: 'budded' })).status).toBe(201);
+  expect((await owner.post(at(`/leads/${records.lead.id}/sheath`), { date: daysAgo(0), sheath: 'budded', heightMm: 55 })).status).toBe(201);
   expect((await owner.get(at('/digest'))).status).toBe(200);
   expect((await owner.put(at('/digest'), { optedOut: true })).status).toBe(200);
   seeded = { email: user.email, collectionId: world.collectionId, plantTag: records.plant.tag, photoId: photo.id };

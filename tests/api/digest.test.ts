@@ -68,14 +68,15 @@ describe('weekly digest', () => {
     const owner = await signedIn(ownerAccount.email);
     const attention = await owner.get(`/api/collections/${collectionId}/attention?date=${NOW.toISOString().slice(0, 10)}`);
     expect(attention.status).toBe(200);
-    const expected = (attention.body.items as Array<{ kind: string; plantTag: string; leadLabel: string; reason: string }>).filter((i) =>
+    const expected = (attention.body.items as Array<{ kind: string; plantTag: string; leadLabel: string; reason: string; story: { chip: { label: string } } }>).filter((i) =>
       DIGEST_KINDS.has(i.kind as never),
     );
     expect(expected.length).toBeGreaterThan(0);
     const listed = ownerMail.text.split('\n').filter((line) => line.startsWith('- '));
     expect(listed).toHaveLength(expected.length);
     for (const item of expected) {
-      expect(listed.some((line) => line.startsWith(`- ${item.plantTag}, lead ${item.leadLabel}: ${item.reason}`))).toBe(true);
+      // The lead's state and reason as Today tells them (the one story per lead).
+      expect(listed.some((line) => line.startsWith(`- ${item.plantTag}, lead ${item.leadLabel} (${item.story.chip.label}): ${item.reason}`))).toBe(true);
     }
     expect(ownerMail.html).toContain('<li>');
     expect((ownerMail.html!.match(/<li>/g) ?? []).length).toBe(expected.length);

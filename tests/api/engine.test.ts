@@ -3,6 +3,8 @@ import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
   attentionList,
+  plantSelfCheck,
+  storyOf,
   backtestBloomForecasts,
   compareGroups,
   forecastLead,
@@ -104,6 +106,8 @@ describe('GET /leads/:leadId/forecast', () => {
     expect(body.bloom).toEqual(wire(expected.bloom));
     const { rows: _rows, ...trust } = backtestBloomForecasts([{ plant: d.plant, leads: d.withHistory }]);
     expect(body.trust).toEqual(wire(trust));
+    // The story the page shows is the domain's own, from the same forecast.
+    expect(body.story).toEqual(wire(storyOf(d.own.find((h) => h.lead.id === fx.leadIds['HL-001/A0'])!, expected, body.today, 'mm', plantSelfCheck(d.plant, d.withHistory))));
     expect(body.trust.n).toBe(3);
     expect(body.lead).toMatchObject({ id: fx.leadIds['HL-001/A0'], label: 'A0', status: 'growing' });
     expect(body.fit.interval80.lowMm).toBeLessThanOrEqual(body.fit.matureHeightMm);
@@ -133,7 +137,7 @@ describe('GET /leads/:leadId/forecast', () => {
     const expected = forecastLead({ plant: d.plant, leads: d.withHistory, leadId: fx.leadIds['HL-002/B0'], today: res.body.today })!;
     expect(res.body.flags).toEqual(wire(expected.flags));
     expect(res.body.flags).toHaveLength(1);
-    expect(res.body.flags[0].reason).toMatch(/in \d+ days .* of last season's size/);
+    expect(res.body.flags[0].reason).toMatch(/in \d+ days .* of last season's final size/);
   });
 });
 
@@ -182,9 +186,10 @@ describe('GET /attention', () => {
     return attentionList(
       Object.values(fx.domain).map((d) => ({ plant: d.plant, leads: d.withHistory })),
       date,
+      { seasonStartMonth: 3, units: 'mm' },
     )
       .filter((i) => owner.get(i.target.leadId) === i.target.plantId)
-      .map((i) => ({ kind: i.kind, target: i.target, reason: i.reason, date: i.date, flag: i.flag ?? null }));
+      .map((i) => ({ kind: i.kind, target: i.target, reason: i.reason, date: i.date, flag: i.flag ?? null, story: i.story }));
   };
 
   it('is the attention list the domain gives for today, each item linking to its plant and lead', async () => {
@@ -293,15 +298,20 @@ describe('GET /backtest', () => {
     }
     const byLead = (a: { leadId: string }, b: { leadId: string }) => a.leadId.localeCompare(b.leadId);
     expect([...body.rows].sort(byLead)).toEqual(wire(rows).sort(byLead));
-    expect(body.n).toBe(rows.length);
+    // The headline figures are the forecasts made on the day each lead matured: one per season.
+    const headline = rows.filter((r) => r.atMaturity);
+    expect(body.n).toBe(headline.length);
     expect(body.n).toBe(3 + 3 + 3 + 1 + 1);
-    expect(body.medianAbsErrorDays).toBe(median(rows.map((r) => r.errorDays)));
-    expect(body.shareInside80).toBe(rows.filter((r) => r.inside80).length / rows.length);
-    const naive = rows.filter((r) => r.naiveErrorDays !== null).map((r) => r.naiveErrorDays!);
+    expect(body.medianAbsErrorDays).toBe(median(headline.map((r) => r.errorDays)));
+    expect(body.shareInside80).toBe(headline.filter((r) => r.inside80).length / headline.length);
+    const naive = headline.filter((r) => r.naiveErrorDays !== null).map((r) => r.naiveErrorDays!);
     expect(body.naive).toEqual({ n: naive.length, medianAbsErrorDays: median(naive) });
+    // By stage: every row counted once, at the stage the lead was at when forecast.
+    expect(Object.values(body.byStage).reduce((sum, f) => sum + f.n, 0)).toBe(rows.length);
+    expect(body.byStage.buds.n).toBe(rows.filter((r) => r.stage === 'buds').length);
     // Without divisions it is exactly the domain's collection backtest.
     const plain = backtestBloomForecasts(['HL-001', 'HL-002', 'HL-004'].map((t) => ({ plant: fx.domain[t].plant, leads: fx.domain[t].withHistory })));
-    expect(body.rows.filter((r) => plain.rows.some((p) => p.leadId === r.leadId))).toHaveLength(plain.n);
+    expect(body.rows.filter((r) => plain.rows.some((p) => p.leadId === r.leadId && p.stage === r.stage && p.asOf === r.asOf))).toHaveLength(plain.rows.length);
   });
 });
 

@@ -108,46 +108,93 @@ describe('a repeated entry (the same client key)', () => {
 });
 
 describe('marking the sheath', () => {
-  it('records a dated measurement carrying the latest sizes forward with the new state', async () => {
+  it("on a day with a look, sets that look's sheath; no new measurement, no height invented", async () => {
     const { w, lead } = await measureWorld();
     await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(30), heightMm: 20, leafCount: 1 });
-    await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(8), heightMm: 61, leafCount: 2, rootTips: 4, bulbWidthMm: 18 });
+    const today = await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(0), heightMm: 61, leafCount: 2 });
+    const before = await rowCounts();
     const res = await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(0), sheath: 'budded' });
-    expect(res.status, JSON.stringify(res.body)).toBe(201);
-    expect(res.body).toMatchObject({ date: daysAgo(0), sheath: 'budded', heightMm: 61, leafCount: 2, rootTips: 4, bulbWidthMm: 18, createdBy: w.people.grower.id });
-    const page = await w.viewer.get(w.at(`/leads/${lead.id}`));
-    expect(page.body.measurements.map((m: { sheath: string }) => m.sheath)).toEqual(['none', 'none', 'budded']);
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body).toMatchObject({ id: today.id, date: daysAgo(0), sheath: 'budded', heightMm: 61, leafCount: 2, version: 2 });
+    expect((await rowCounts()).measurements).toBe(before.measurements);
   });
 
-  it('carries the sizes of the latest measurement on or before the date it is marked for', async () => {
+  it("on a new day, is a new look with the height the grower typed, carrying nothing else forward", async () => {
     const { w, lead } = await measureWorld();
-    await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(30), heightMm: 20 });
+    await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(8), heightMm: 61, leafCount: 2, rootTips: 4, bulbWidthMm: 18 });
+    const res = await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(0), sheath: 'forming', heightMm: 63 });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body).toMatchObject({ date: daysAgo(0), sheath: 'forming', heightMm: 63, leafCount: null, rootTips: null, bulbWidthMm: null, createdBy: w.people.grower.id });
+  });
+
+  it('asks for the height on a new day rather than copying the last one; nothing is written', async () => {
+    const { w, lead } = await measureWorld();
     await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(8), heightMm: 61 });
-    const res = await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(20), sheath: 'forming' });
-    expect(res.body).toMatchObject({ heightMm: 20, sheath: 'forming' });
+    const before = await rowCounts();
+    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(0), sheath: 'empty' }), 400, 'heightMm', /height today/);
+    expect(await rowCounts()).toEqual(before);
   });
 
   it('is stored once per client key', async () => {
     const { w, lead } = await measureWorld();
-    await insertMeasurement(testDb(), lead);
-    const body = { date: daysAgo(0), sheath: 'empty', clientKey: randomUUID() };
+    await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(5) });
+    const body = { date: daysAgo(0), sheath: 'empty', heightMm: 40, clientKey: randomUUID() };
     expect((await w.grower.post(w.at(`/leads/${lead.id}/sheath`), body)).status).toBe(201);
     const before = await rowCounts();
     expect((await w.grower.post(w.at(`/leads/${lead.id}/sheath`), body)).status).toBe(200);
     expect(await rowCounts()).toEqual(before);
   });
 
-  it('refuses a lead with no height yet, an unknown state, and the date rules; nothing is written', async () => {
-    const { w, lead } = await measureWorld();
+  it('takes no sheath mark on a genus whose flowers do not come from a sheath (Stan., Den.)', async () => {
+    const w = await collectionWorld(server);
+    const plant = await insertPlant(testDb(), w.collectionId, { genus: 'Stan.' });
+    const lead = await insertLead(testDb(), plant, { firstSeen: daysAgo(60) });
     const before = await rowCounts();
-    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(0), sheath: 'dry' }), 400, 'sheath', /Record a height first/);
+    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(0), sheath: 'forming', heightMm: 40 }), 400, 'sheath', /does not flower from a sheath/);
+    expect(await rowCounts()).toEqual(before);
+  });
+
+  it('refuses an unknown state and the date rules; nothing is written', async () => {
+    const { w, lead } = await measureWorld();
     await insertMeasurement(testDb(), lead);
     const withOne = await rowCounts();
-    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(0), sheath: 'open' }), 400, 'sheath', /none, forming/);
-    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAhead(3), sheath: 'dry' }), 400, 'date', /future/);
-    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(70), sheath: 'dry' }), 400, 'date', /first seen/);
+    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(0), sheath: 'open', heightMm: 40 }), 400, 'sheath', /none, forming/);
+    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAhead(3), sheath: 'dry', heightMm: 40 }), 400, 'date', /future/);
+    expectRefused(await w.grower.post(w.at(`/leads/${lead.id}/sheath`), { date: daysAgo(70), sheath: 'dry', heightMm: 40 }), 400, 'date', /first seen/);
     expect(await rowCounts()).toEqual(withOne);
-    expect(withOne.measurements).toBe(before.measurements + 1);
+  });
+});
+
+describe('one look per lead and day', () => {
+  it('refuses a second measurement of a lead on one date with 409 and the stored one; nothing is written', async () => {
+    const { w, lead } = await measureWorld();
+    const first = await w.grower.post(w.at(`/leads/${lead.id}/measurements`), buildMeasurementInput({ heightMm: 40 }));
+    expect(first.status).toBe(201);
+    const before = await rowCounts();
+    const second = await w.grower.post(w.at(`/leads/${lead.id}/measurements`), buildMeasurementInput({ heightMm: 42 }));
+    expect(second.status).toBe(409);
+    expect(second.body).toMatchObject({ error: { code: 'measurement_exists' }, current: { id: first.body.id, heightMm: 40 } });
+    expect(second.body.error.message).toMatch(/already has a measurement on .*; edit that one instead/);
+    expect(await rowCounts()).toEqual(before);
+  });
+
+  it('lets only one of two saves racing for the same day land', async () => {
+    const { w, lead } = await measureWorld();
+    const results = await Promise.all([41, 42, 43].map((h) => w.grower.post(w.at(`/leads/${lead.id}/measurements`), buildMeasurementInput({ heightMm: h }))));
+    expect(results.map((r) => r.status).sort()).toEqual([201, 409, 409]);
+    const rows = await testDb().select().from(measurements).where(eq(measurements.leadId, lead.id));
+    expect(rows).toHaveLength(1);
+  });
+
+  it('refuses moving a measurement onto a date that has one', async () => {
+    const { w, lead } = await measureWorld();
+    await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(10), heightMm: 30 });
+    const m = await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(3), heightMm: 33 });
+    const res = await w.grower.patch(w.at(`/measurements/${m.id}`), { version: 1, date: daysAgo(10) });
+    expect(res.status).toBe(409);
+    expect(res.body).toMatchObject({ error: { code: 'measurement_exists' }, current: { heightMm: 30 } });
+    const [row] = await testDb().select().from(measurements).where(eq(measurements.id, m.id));
+    expect(row.version).toBe(1);
   });
 });
 

@@ -80,7 +80,7 @@ const MATRIX: Record<string, Entry> = {
   'PATCH /api/collections/:collectionId/leads/:leadId': { expected: MEMBERS('grower', 200), body: () => ({ version: 1, status: 'mature' }) },
   'DELETE /api/collections/:collectionId/leads/:leadId': { expected: MEMBERS('owner', 204) },
   'POST /api/collections/:collectionId/leads/:leadId/measurements': { expected: MEMBERS('grower', 201), body: () => buildMeasurementInput() },
-  'POST /api/collections/:collectionId/leads/:leadId/sheath': { expected: MEMBERS('grower', 201), body: () => ({ date: daysAgo(0), sheath: 'budded' }) },
+  'POST /api/collections/:collectionId/leads/:leadId/sheath': { expected: MEMBERS('grower', 201), body: () => ({ date: daysAgo(0), sheath: 'budded', heightMm: 55 }) },
   'PUT /api/collections/:collectionId/leads/:leadId/bloom': { expected: MEMBERS('grower', 201), body: () => buildBloomInput() },
   'PATCH /api/collections/:collectionId/measurements/:measurementId': { expected: MEMBERS('grower', 200), body: () => ({ version: 1, heightMm: 55 }) },
   /** The fixture's measurement and care entry were recorded by the grower, who may delete them. */
@@ -94,6 +94,7 @@ const MATRIX: Record<string, Entry> = {
   'GET /api/collections/:collectionId/attention': { expected: MEMBERS('viewer', 200) },
   'GET /api/collections/:collectionId/calendar': { expected: MEMBERS('viewer', 200) },
   'GET /api/collections/:collectionId/backtest': { expected: MEMBERS('viewer', 200) },
+  'GET /api/collections/:collectionId/lead-stories': { expected: MEMBERS('viewer', 200) },
   'GET /api/collections/:collectionId/compare': { expected: MEMBERS('viewer', 200), query: '?by=medium' },
   // Mail: invitations are the owners' business; the link itself is the credential for the invitee.
   'GET /api/collections/:collectionId/invitations': { expected: MEMBERS('owner', 200) },

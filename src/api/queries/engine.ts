@@ -5,7 +5,9 @@ import {
   bloomCalendarSchema,
   comparisonSchema,
   leadForecastSchema,
+  leadStoriesSchema,
   plantTrendSchema,
+  type LeadStoryResponse,
 } from '@/shared/schemas/engine';
 import { request } from '../client';
 import { fromPageOrServer } from '../page-data';
@@ -18,6 +20,7 @@ export const engineKeys = {
   attention: (c: string, date?: string) => [...recordKeys.all(c), 'attention', date ?? 'today'] as const,
   calendar: (c: string, params: CalendarParams) => [...recordKeys.all(c), 'calendar', params] as const,
   backtest: (c: string) => [...recordKeys.all(c), 'backtest'] as const,
+  stories: (c: string) => [...recordKeys.all(c), 'stories'] as const,
   compare: (c: string, params: CompareParams) => [...recordKeys.all(c), 'compare', params] as const,
 };
 
@@ -86,5 +89,15 @@ export function useCompareQuery(collectionId: string, params: CompareParams | nu
     queryFn: () => request(`${base(collectionId)}/compare${query(params ?? {})}`, { schema: comparisonSchema }),
     enabled: !!collectionId && !!params,
     placeholderData: keepPreviousData,
+  });
+}
+
+/** Every current lead's story, by lead id: what Plants, a plant page and Rounds show beside each lead. */
+export function useLeadStoriesQuery(collectionId: string) {
+  return useQuery({
+    queryKey: engineKeys.stories(collectionId),
+    queryFn: () => request(`${base(collectionId)}/lead-stories`, { schema: leadStoriesSchema }),
+    select: (data): Map<string, LeadStoryResponse> => new Map(data.stories.map((s) => [s.leadId, s.story])),
+    enabled: !!collectionId,
   });
 }

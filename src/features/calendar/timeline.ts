@@ -1,3 +1,4 @@
+import { CHANCE_LEVELS, chanceLevel, chanceWords, type ChanceLevel } from '@/domain/story';
 import { formatDate } from '@/lib/dates';
 import { MONTH_ABBREVIATIONS } from '@/lib/format';
 import { colors } from '@/theme';
@@ -74,28 +75,34 @@ export function shortDate(date: string, referenceYear: number): string {
   return y === referenceYear ? `${d} ${MONTH_ABBREVIATIONS[m - 1]}` : formatDate(date);
 }
 
-export type ChanceBand = 'likely' | 'possible' | 'unlikely';
 
 /**
- * Bands for the chance that a lead blooms at all. The cut-offs are our own reading of the
- * engine's chance (common practice for "likely" is two in three or better); the percentage is
- * always printed beside the word, so the band only eases scanning.
+ * The engine's chance bands (`chanceLevel`, src/domain/story.ts) with a colour each for the
+ * Calendar's bars. The word and its dots always print beside the colour, so colour is never the
+ * only sign.
  */
-export const CHANCE_BANDS: ReadonlyArray<{ band: ChanceBand; min: number; label: string; legend: string; color: string }> = [
-  { band: 'likely', min: 0.7, label: 'likely', legend: 'Likely to bloom (70% or more)', color: colors.accent },
-  { band: 'possible', min: 0.4, label: 'possible', legend: 'Possible (40–69%)', color: colors.warning },
-  { band: 'unlikely', min: 0, label: 'unlikely', legend: 'Unlikely (under 40%)', color: colors.textSubtle },
-];
+const LEVEL_COLOURS: Record<ChanceLevel, string> = {
+  almost_certain: colors.accent,
+  likely: colors.accent,
+  possible: colors.warning,
+  unlikely: colors.textSubtle,
+  very_unlikely: colors.textSubtle,
+};
+
+export const CHANCE_BANDS = CHANCE_LEVELS.map((l, i) => {
+  const upper = i === 0 ? null : CHANCE_LEVELS[i - 1].min;
+  const range = upper === null ? `${Math.round(l.min * 100)}% or more` : l.min === 0 ? `under ${Math.round(upper * 100)}%` : `${Math.round(l.min * 100)}–${Math.round(upper * 100) - 1}%`;
+  return { band: l.level, min: l.min, label: l.word, dots: l.dots, legend: `${l.dots} ${l.word.replace(/^./, (c) => c.toUpperCase())} (${range})`, color: LEVEL_COLOURS[l.level] };
+});
 
 export function chanceBand(chance: number) {
-  return CHANCE_BANDS.find((b) => chance >= b.min) ?? CHANCE_BANDS[CHANCE_BANDS.length - 1];
+  const level = chanceLevel(chance).level;
+  return CHANCE_BANDS.find((b) => b.band === level)!;
 }
 
 export function percent(share: number): string {
   return `${Math.round(share * 100)}%`;
 }
 
-/** "likely (78%)": the band in words with its figure, so colour is never the only signal. */
-export function chanceText(chance: number): string {
-  return `${chanceBand(chance).label} (${percent(chance)})`;
-}
+/** "likely (78%)": the engine's one word for the chance with its figure. */
+export const chanceText = chanceWords;

@@ -22,6 +22,7 @@ import { DivideForm } from './components/divide-form';
 import { EditPlantForm } from './components/edit-plant-form';
 import { HandoffBanner } from './components/handoff-banner';
 import { HandoffSection } from './components/handoff-section';
+import { useLeadStoriesQuery } from '@/api/queries/engine';
 import { LeadChip } from './components/lead-chip';
 import { Lineage } from './components/lineage';
 import { PlantTrend } from './components/plant-trend';
@@ -55,6 +56,7 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
   const canDeleteHistory = plant.historyOnly && isOwner;
   const me = useMeQuery();
   const areas = useAreasQuery(collectionId);
+  const stories = useLeadStoriesQuery(collectionId);
   const remove = useDeletePlantMutation(collectionId);
   const [panel, setPanel] = useState<Panel>('none');
   const close = () => setPanel('none');
@@ -121,7 +123,7 @@ function PlantBody({ plant }: { plant: PlantDetail }) {
                   {leads.map((lead) => (
                     <Link key={lead.id} href={`/plants/${plant.id}/leads/${lead.id}`} asChild>
                       <Pressable accessibilityRole="link" testID={`lead-link-${lead.label}`} style={styles.leadLink}>
-                        <LeadChip lead={lead} units={units} />
+                        <LeadChip lead={lead} units={units} story={stories.data?.get(lead.id)} />
                       </Pressable>
                     </Link>
                   ))}

@@ -14,6 +14,8 @@ import { COMMON_GENERA } from '@/shared/genera';
 import { plantDisplayName } from '@/shared/plant-name';
 import { leadStatuses, type PlantListItem } from '@/shared/schemas/records';
 import { colors, radius, spacing } from '@/theme';
+import { useLeadStoriesQuery } from '@/api/queries/engine';
+import type { LeadStoryResponse } from '@/shared/schemas/engine';
 import { useCollectionSettings } from '../collections/use-collection-settings';
 import { LeadChip, STATUS_LABELS } from './components/lead-chip';
 
@@ -28,6 +30,7 @@ export function PlantsScreen() {
   const q = useDeferredValue(search.trim());
   const plants = usePlantsQuery(collectionId, { ...filters, q: q || undefined });
   const areas = useAreasQuery(collectionId);
+  const stories = useLeadStoriesQuery(collectionId);
   const toggle = (key: 'genus' | 'areaId' | 'leadStatus', value: string) =>
     setFilters((f) => ({ ...f, page: 1, [key]: f[key] === value ? undefined : value }));
   const filtering = !!(q || filters.genus || filters.areaId || filters.leadStatus);
@@ -88,7 +91,7 @@ export function PlantsScreen() {
             </Text>
             <View style={[styles.grid, wide && styles.gridWide]}>
               {page.items.map((plant) => (
-                <PlantRow key={plant.id} plant={plant} units={units} wide={wide} />
+                <PlantRow key={plant.id} plant={plant} units={units} wide={wide} stories={stories.data} />
               ))}
             </View>
             {page.total > PAGE_SIZE ? (
@@ -112,7 +115,7 @@ export function PlantsScreen() {
   );
 }
 
-function PlantRow({ plant, units, wide }: { plant: PlantListItem; units: 'mm' | 'in'; wide: boolean }) {
+function PlantRow({ plant, units, wide, stories }: { plant: PlantListItem; units: 'mm' | 'in'; wide: boolean; stories: Map<string, LeadStoryResponse> | undefined }) {
   const where = [plant.areaName, plant.medium].filter(Boolean).join(' · ');
   return (
     <Link href={`/plants/${plant.id}`} asChild>
@@ -130,7 +133,7 @@ function PlantRow({ plant, units, wide }: { plant: PlantListItem; units: 'mm' | 
               No leads recorded
             </Text>
           ) : (
-            plant.currentLeads.map((lead) => <LeadChip key={lead.id} lead={lead} units={units} />)
+            plant.currentLeads.map((lead) => <LeadChip key={lead.id} lead={lead} units={units} story={stories?.get(lead.id)} />)
           )}
         </View>
       </Pressable>

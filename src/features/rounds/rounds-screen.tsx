@@ -15,6 +15,7 @@ import type { RoundStop } from '@/shared/schemas/records';
 import { colors, radius, spacing } from '@/theme';
 import { useCollectionSettings } from '../collections/use-collection-settings';
 import { MeasurementForm } from '../leads/components/measurement-form';
+import { useLeadStoriesQuery } from '@/api/queries/engine';
 import { STATUS_LABELS } from '../plants/components/lead-chip';
 import { outbox, useOutbox } from './outbox';
 
@@ -49,6 +50,7 @@ export function RoundsScreen() {
 function Walk({ stops, collectionId, canWrite, units, onEditOrder }: { stops: RoundStop[]; collectionId: string; canWrite: boolean; units: LengthUnit; onEditOrder: () => void }) {
   const router = useRouter();
   const { waiting, refused, flush } = useOutbox(collectionId);
+  const stories = useLeadStoriesQuery(collectionId);
   const [index, setIndex] = useState(() => {
     const saved = Number(storage.get(positionKey(collectionId)));
     return Number.isInteger(saved) && saved >= 0 ? Math.min(saved, stops.length - 1) : 0;
@@ -80,8 +82,13 @@ function Walk({ stops, collectionId, canWrite, units, onEditOrder }: { stops: Ro
         {leads.map((lead) => (
           <View key={lead.id} style={styles.lead} testID={`rounds-lead-${lead.label}`}>
             <Text variant="heading">
-              Lead {lead.label} · {STATUS_LABELS[lead.status]}
+              Lead {lead.label} · {stories.data?.get(lead.id)?.chip.label ?? STATUS_LABELS[lead.status]}
             </Text>
+            {stories.data?.get(lead.id)?.flag ? (
+              <Text color="warning" testID={`rounds-flag-${lead.label}`}>
+                {stories.data.get(lead.id)!.flag}
+              </Text>
+            ) : null}
             {canWrite ? (
               <MeasurementForm
                 last={lead.latest}

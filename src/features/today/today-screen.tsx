@@ -76,7 +76,7 @@ function AttentionRow({ item, tone }: { item: Item; tone: 'danger' | 'warning' |
         <View style={StyleSheet.flatten([styles.marker, { backgroundColor: colors[tone] }])} />
         <View style={styles.rowText}>
           <Text variant="bodyStrong">
-            {item.plantTag} · lead {item.leadLabel}
+            {item.plantTag} · lead {item.leadLabel} · {item.story.chip.label}
           </Text>
           <Text>
             <Text variant="label" color={tone === 'text' ? 'textMuted' : tone}>

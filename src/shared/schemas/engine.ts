@@ -111,12 +111,27 @@ export const dateWindowSchema = z
   .object({ p10: date, p50: date, p90: date })
   .refine((w) => w.p10 <= w.p50 && w.p50 <= w.p90, { message: 'percentile dates must be in order' });
 
-export const bloomStages = ['growing', 'mature', 'buds', 'in_flower', 'faded', 'lost'] as const;
+export const bloomStages = [
+  'growing',
+  'bulb_mature',
+  'sheath_forming',
+  'sheath_empty',
+  'sheath_dry',
+  'buds_in_sheath',
+  'buds_visible',
+  'in_flower',
+  'faded',
+  'lost',
+] as const;
+export const bloomTimings = ['record', 'forecast', 'late', 'unlikely', 'none'] as const;
 export const bloomForecastSchema = z.object({
   leadId: idSchema,
   stage: z.enum(bloomStages),
   stageDate: date.nullable(),
+  timing: z.enum(bloomTimings),
   firstOpen: dateWindowSchema.nullable(),
+  late: z.object({ likelyWas: date, daysLate: int.min(1) }).nullable(),
+  latestPlausible: date.nullable(),
   lastFadedLikely: date.nullable(),
   mode: z.enum(['days', 'degree-days']),
   chance: share,
@@ -128,11 +143,41 @@ export const bloomForecastSchema = z.object({
     basis: z.enum(['plant-by-size', 'plant-mean', 'genus']),
   }),
   history: z.object({ seasons: int.min(0), weight: share }),
+  shareGone: share,
+  heldOutHalfWidthDays: num.min(0).nullable(),
   notes: z.array(z.string()),
 });
 
-/** Leave-one-season-out figures without the per-lead rows. */
-export const backtestFiguresSchema = z.object({
+export const chanceLevels = ['almost_certain', 'likely', 'possible', 'unlikely', 'very_unlikely'] as const;
+export const chipTones = ['ok', 'warning', 'alert', 'neutral', 'bloom'] as const;
+
+/** A lead's story (`leadStory`): the sentences every screen and mail shows for it. */
+export const leadStorySchema = z.object({
+  leadId: idSchema,
+  chip: z.object({ label: z.string(), tone: z.enum(chipTones) }),
+  stage: z.enum(bloomStages),
+  stageLabel: z.string(),
+  size: z.string().nullable(),
+  growth: z.string().nullable(),
+  flag: z.string().nullable(),
+  bloom: z.string(),
+  chance: z.object({ value: share, level: z.enum(chanceLevels), word: z.string(), dots: z.string() }).nullable(),
+  trust: z.string(),
+  figures: z.object({
+    ageDays: int.nullable(),
+    heightMm: num.nullable(),
+    ofLastSeasonAtSameAge: num.nullable(),
+    ofLastSeasonFinal: num.nullable(),
+    lastSeasonFinalMm: num.nullable(),
+    daysAhead: int.nullable(),
+    timing: z.enum(bloomTimings),
+    uncertain: z.boolean(),
+  }),
+});
+
+export const forecastStages = ['growing', 'mature', 'sheath', 'buds'] as const;
+
+const figures = z.object({
   n: int.min(0),
   medianAbsErrorDays: num.min(0).nullable(),
   shareInside80: share.nullable(),
@@ -140,12 +185,24 @@ export const backtestFiguresSchema = z.object({
   beatsNaive: z.boolean().nullable(),
 });
 
+/**
+ * Leave-one-season-out figures without the per-lead rows: the headline ones (forecasts made on
+ * the day the lead matured) and the same by the stage the lead was at when forecast.
+ */
+export const backtestFiguresSchema = figures.extend({
+  byStage: z.object({ growing: figures, mature: figures, sheath: figures, buds: figures }),
+});
+
 export const backtestRowSchema = z.object({
   plantId: idSchema,
   leadId: idSchema,
   season: int,
+  stage: z.enum(forecastStages),
+  atMaturity: z.boolean(),
+  asOf: date,
   actual: date,
   forecast: dateWindowSchema,
+  signedErrorDays: int,
   errorDays: int.min(0),
   inside80: z.boolean(),
   naive: date.nullable(),
@@ -175,8 +232,17 @@ export const leadForecastSchema = z.object({
   priorYears: priorYearsComparisonSchema,
   flags: z.array(leadFlagSchema),
   bloom: bloomForecastSchema,
+  story: leadStorySchema,
   /** How far this plant's own bloom forecasts were off in earlier seasons (inherited seasons included). */
   trust: backtestFiguresSchema,
+});
+
+// ── GET /lead-stories ─────────────────────────────────────────────────────────────────
+
+/** The story of every current lead of the collection's plants (what Plants, a plant and Rounds show beside each lead). */
+export const leadStoriesSchema = z.object({
+  today: date,
+  stories: z.array(z.object({ plantId: idSchema, leadId: idSchema, story: leadStorySchema })),
 });
 
 // ── GET /plants/:plantId/trend ────────────────────────────────────────────────────────
@@ -227,6 +293,7 @@ export const attentionItemSchema = z.object({
   flag: leadFlagSchema.nullable(),
   plantTag: z.string(),
   leadLabel: z.string(),
+  story: leadStorySchema,
 });
 export const attentionListSchema = z.object({ date, items: z.array(attentionItemSchema) });
 
@@ -242,6 +309,7 @@ export const calendarWindowSchema = z.object({
   span: z.object({ start: date, end: date }),
   chance: share,
   expectedFlowers: int.min(0),
+  story: leadStorySchema,
 });
 
 export const inFlowerOnSchema = z.object({
@@ -299,6 +367,8 @@ export const comparisonSchema = z.object({
   warnings: z.array(z.string()),
 });
 
+export type LeadStoryResponse = z.infer<typeof leadStorySchema>;
+export type LeadStoriesResponse = z.infer<typeof leadStoriesSchema>;
 export type LeadForecastResponse = z.infer<typeof leadForecastSchema>;
 export type PlantTrendResponse = z.infer<typeof plantTrendSchema>;
 export type AttentionListResponse = z.infer<typeof attentionListSchema>;

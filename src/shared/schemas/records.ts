@@ -156,12 +156,14 @@ const nullableCount = (max: number, what: string) =>
     .nullish()
     .transform((v) => v ?? null);
 
+const heightSchema = z
+  .number({ error: 'Enter the pseudobulb height' })
+  .min(0, 'Height cannot be negative')
+  .max(MAX_HEIGHT_MM, `A height above ${MAX_HEIGHT_MM} mm is not plausible`);
+
 export const measurementInputSchema = z.object({
   date: calendarDateSchema,
-  heightMm: z
-    .number({ error: 'Enter the pseudobulb height' })
-    .min(0, 'Height cannot be negative')
-    .max(MAX_HEIGHT_MM, `A height above ${MAX_HEIGHT_MM} mm is not plausible`),
+  heightMm: heightSchema,
   leafCount: nullableCount(MAX_LEAF_COUNT, 'Leaf count'),
   sheath: sheathSchema.default('none'),
   rootTips: nullableCount(MAX_ROOT_TIPS, 'Root tips'),
@@ -177,10 +179,14 @@ export const measurementInputSchema = z.object({
 });
 export const updateMeasurementInputSchema = measurementInputSchema.omit({ clientKey: true }).partial().extend({ version: versionSchema });
 
-/** One tap on the Lead screen: a dated measurement that carries the last height forward. */
+/**
+ * A sheath mark: on a day with a look, it sets that look's sheath; on a new day it is a new look
+ * and needs the bulb's height that day (no height is carried forward).
+ */
 export const sheathMarkInputSchema = z.object({
   date: calendarDateSchema,
   sheath: sheathSchema,
+  heightMm: heightSchema.optional(),
   clientKey: z.uuid().optional(),
 });
 

@@ -1,5 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { addDays } from '@/domain/dates';
 import { dailyDegreeDays, dateReachingDegreeDays, recentDailyDegreeDays, sumDegreeDays } from '@/domain/degree-days';
 
 describe('daily growing degree-days (averaging method)', () => {
@@ -48,10 +49,42 @@ describe('sums and projection (generated readings)', () => {
 
   it('projects past the readings with the recent normal', () => {
     expect(recentDailyDegreeDays(readings, '2026-06-11', { baseTemp: 3.5 })).toBeCloseTo(15, 10);
-    // 150 from 10 days of readings, then 15 a day: 300 reached on day 20.
-    expect(dateReachingDegreeDays(readings, '2026-06-01', 300, '2026-06-11', { baseTemp: 3.5 })).toBe('2026-06-20');
-    expect(dateReachingDegreeDays(readings, '2026-06-01', 45, '2026-06-11', { baseTemp: 3.5 })).toBe('2026-06-03');
+    // 150 from 10 days of readings, then 15 a day: 300 is complete after 20 days, 1–20 June, so
+    // the interval [1 June, 21 June) holds it, as sumDegreeDays counts.
+    expect(dateReachingDegreeDays(readings, '2026-06-01', 300, '2026-06-11', { baseTemp: 3.5 })).toBe('2026-06-21');
+    expect(dateReachingDegreeDays(readings, '2026-06-01', 45, '2026-06-11', { baseTemp: 3.5 })).toBe('2026-06-04');
     expect(dateReachingDegreeDays([], '2026-06-01', 45, '2026-06-11', { baseTemp: 3.5 })).toBeNull();
+  });
+});
+
+describe('an interval counted the same way in both directions', () => {
+  // Iowa State University, Agronomy 541 (REFERENCES.md): a day of high 70 °F and low 50 °F above a
+  // 50 °F base is 10 GDD. Seven such days from 1 to 7 May hold 70 GDD; counting 70 GDD forward from
+  // 1 May must end the interval on 8 May, the day after the last one counted.
+  const may = Array.from({ length: 20 }, (_, i) => ({ date: `2026-05-${String(i + 1).padStart(2, '0')}`, minC: 50, maxC: 70 }));
+  const options = { baseTemp: 50, method: 'plain' as const };
+
+  it('the worked example, forward and back', () => {
+    expect(sumDegreeDays(may, '2026-05-01', '2026-05-08', options).degreeDays).toBeCloseTo(70, 12);
+    expect(dateReachingDegreeDays(may, '2026-05-01', 70, '2026-05-21', options)).toBe('2026-05-08');
+  });
+
+  it('any past interval gives back its own end date (fast-check)', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.record({ lo: fc.integer({ min: 0, max: 25 }), span: fc.integer({ min: 1, max: 15 }) }), { minLength: 40, maxLength: 40 }),
+        fc.integer({ min: 0, max: 20 }),
+        fc.integer({ min: 1, max: 19 }),
+        (days, from, length) => {
+          const readings = days.map((d, i) => ({ date: addDays('2026-03-01', i), minC: d.lo, maxC: d.lo + d.span }));
+          const start = addDays('2026-03-01', from);
+          const end = addDays(start, length);
+          const total = sumDegreeDays(readings, start, end, { baseTemp: 3.5 }).degreeDays;
+          fc.pre(total > 0 && dailyDegreeDays(days[from + length - 1].lo, days[from + length - 1].lo + days[from + length - 1].span, { baseTemp: 3.5 }) > 0);
+          expect(dateReachingDegreeDays(readings, start, total, '2026-04-10', { baseTemp: 3.5 })).toBe(end);
+        },
+      ),
+    );
   });
 });
 

@@ -4,6 +4,7 @@ import { attentionList } from '@/domain/attention';
 import { backtestBloomForecasts } from '@/domain/backtest';
 import { CHANCE_FACTORS, forecastBloom, maturedOn, shrinkLogInterval, SHRINKAGE_MAX_SHIFT_SE, type BloomHistory } from '@/domain/bloom-window';
 import { addDays, daysBetween } from '@/domain/dates';
+import { formatDate } from '@/domain/words';
 import { CATTLEYA_DEFAULTS, STANHOPEA_DEFAULTS } from '@/domain/genus-defaults';
 import { fitLeadCurve } from '@/domain/growth-curve';
 import { forecastLead } from '@/domain/lead-forecast';
@@ -33,7 +34,7 @@ describe('young lead against last season (like with like)', () => {
     const withoutFit = forecastBloom({ current, history, genusDefaults: CATTLEYA_DEFAULTS, fit: { ...fit, method: 'insufficient' }, today });
     const prior = compareWithPriorYears({ current, plant: buildPlant(), plantLeads: [...history, current], today });
     expect(prior.lastSeason!.sizeRatio!).toBeGreaterThan(0.9);
-    expect(withoutFit.chanceReasons.join(' ')).not.toMatch(/of last season's size/);
+    expect(withoutFit.chanceReasons.join(' ')).not.toMatch(/% of last season's/);
     // Only the plant's record counts: bloomed 1 of 1 seasons, shrunk toward the genus rate.
     expect(withoutFit.chance).toBeCloseTo((1 + 3 * CATTLEYA_DEFAULTS.bloomRate) / (1 + 3), 10);
   });
@@ -55,7 +56,7 @@ describe('young lead against last season (like with like)', () => {
   it('still penalises a young lead that is small for its age, saying so', () => {
     const small: BloomHistory = { lead, measurements: [buildMeasurement(lead, 42, 20), buildMeasurement(lead, 56, 30)], bloom: null };
     const f = forecastBloom({ current: small, history, genusDefaults: CATTLEYA_DEFAULTS, fit: null, today });
-    expect(f.chanceReasons.join(' ')).toMatch(/% of last season's size at the same age \(56 days\)/);
+    expect(f.chanceReasons.join(' ')).toMatch(/% of last season's lead at the same age \(56 days\)/);
     const base = forecastBloom({ current, history, genusDefaults: CATTLEYA_DEFAULTS, fit: null, today });
     expect(f.chance).toBeCloseTo(base.chance * CHANCE_FACTORS.muchSmallerLead, 10);
   });
@@ -82,17 +83,38 @@ describe('windows of leads not open yet start no earlier than today', () => {
     expect(f.firstOpen!.p90 >= early.firstOpen!.p90).toBe(true);
   });
 
-  it.each(['2026-09-15', '2026-10-01', '2026-12-01', '2027-03-01'])('no percentile before today on %s', (today) => {
+  it.each(['2026-09-15', '2026-10-01', '2026-10-20'])('no percentile before today on %s', (today) => {
     const f = forecastBloom({ current, history, genusDefaults: CATTLEYA_DEFAULTS, today });
     expect(f.firstOpen!.p10 >= today).toBe(true);
     expect(f.firstOpen!.p10 <= f.firstOpen!.p50 && f.firstOpen!.p50 <= f.firstOpen!.p90).toBe(true);
+  });
+
+  it('two months past its usual 1 October it is late, its chance low and falling', () => {
+    const nov = forecastBloom({ current, history, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-11-10' });
+    const dec = forecastBloom({ current, history, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-12-01' });
+    for (const f of [nov, dec]) {
+      expect(f.timing).toBe('late');
+      expect(f.late!.likelyWas < '2026-10-15').toBe(true);
+    }
+    expect(dec.late!.daysLate).toBeGreaterThan(nov.late!.daysLate);
+    expect(dec.chance).toBeLessThan(nov.chance);
+    expect(dec.chance).toBeLessThan(0.15);
+  });
+
+  it.each(['2027-01-15', '2027-03-01'])('past its latest plausible date, on %s it is probably not flowering this season', (today) => {
+    const f = forecastBloom({ current, history, genusDefaults: CATTLEYA_DEFAULTS, today });
+    expect(f.timing).toBe('unlikely');
+    expect(f.firstOpen).toBeNull();
+    expect(f.latestPlausible! < today).toBe(true);
+    expect(f.chance).toBeLessThan(0.05);
+    expect(f.chanceReasons.join(' ')).toMatch(/past the latest date its record makes plausible/);
   });
 
   it('counts a growing lead past its predicted maturity from today', () => {
     const g: BloomHistory = { lead: buildLead({ season: 2026, id: 'slow' }), measurements: [], bloom: null };
     const f = forecastBloom({ current: g, history, genusDefaults: CATTLEYA_DEFAULTS, today: '2026-09-01', fit: { maturityDate: '2026-08-01', method: 'free', matureHeightMm: 160 } as never });
     expect(f.firstOpen!.p10 >= '2026-09-01').toBe(true);
-    expect(f.notes.join(' ')).toMatch(/past its predicted maturity date 2026-08-01/);
+    expect(f.notes.join(' ')).toMatch(/past its predicted maturity date 2026-\d\d-\d\d and not mature yet/);
   });
 });
 
@@ -134,8 +156,9 @@ describe('Today list and lead page agree', () => {
     const bloom = items.find((i) => i.kind === 'bloom')!;
     expect(bloom).toBeDefined();
     expect(bloom.date).toBe(page.bloom.firstOpen!.p10);
-    expect(bloom.reason).toContain(`chance ${Math.round(page.bloom.chance * 100)}%`);
-    expect(bloom.reason).toContain(`likely ${page.bloom.firstOpen!.p50}`);
+    expect(bloom.reason).toContain(`(${Math.round(page.bloom.chance * 100)}%)`);
+    expect(bloom.reason).toContain(`about ${formatDate(page.bloom.firstOpen!.p50)}`);
+    expect(bloom.story.bloom).toBe(bloom.reason);
   });
 });
 
@@ -161,7 +184,9 @@ describe("a division's inherited parent leads", () => {
       { plant: parent, leads: parentLeads },
       { plant: division, leads: [...parentLeads, divSeason] },
     ]);
-    expect(r.rows.filter((x) => x.plantId === 'div').map((x) => x.leadId)).toEqual(['div-2027']);
+    // One season of its own, tested at each stage it went through (growing, sheath, buds).
+    expect([...new Set(r.rows.filter((x) => x.plantId === 'div').map((x) => x.leadId))]).toEqual(['div-2027']);
+    expect(r.rows.filter((x) => x.plantId === 'div' && x.atMaturity)).toHaveLength(1);
     expect(r.n).toBe(3 + 1);
   });
 });

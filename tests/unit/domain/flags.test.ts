@@ -58,7 +58,7 @@ describe('stalled and aborted leads (generated scenarios)', () => {
     expect(hit!.age - stopAge).toBeLessThanOrEqual(STALL_MIN_DAYS + MEASURE_EVERY);
     const flag = hit!.flags[0];
     expect(flag.severity).toBe('warning');
-    expect(flag.reason).toMatch(/^no height gain in \d+ days \(about \d+ mm expected\) at (4[5-9]|5[0-5])% of last season's size$/);
+    expect(flag.reason).toMatch(/^no height gain in \d+ days \(about \d+ mm expected\) at (4[5-9]|5[0-5])% of last season's final size$/);
     expect(flag.shareOfReference!).toBeCloseTo(0.5, 1);
   });
 
@@ -81,7 +81,7 @@ describe('stalled and aborted leads (generated scenarios)', () => {
   });
 
   it.each([
-    ['dried_off', /^marked dried off by the grower at [\d.]+ mm at \d+% of last season's size$/],
+    ['dried_off', /^marked dried off by the grower at [\d.]+ mm at \d+% of last season's final size$/],
     ['rotted', /^marked rotted by the grower/],
   ] as const)('flags a lead the grower marked %s', (status, pattern) => {
     const lead = buildLead({ season: 2026, status });

@@ -3,18 +3,9 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { Text } from '@/components/text';
 import type { BloomCalendarResponse } from '@/shared/schemas/engine';
 import { colors, radius, spacing } from '@/theme';
-import { CHANCE_BANDS, chanceBand, chanceText, monthLabel, monthStarts, positionPercent, shortDate } from '../timeline';
+import { CHANCE_BANDS, chanceBand, chanceText, monthLabel, monthStarts, positionPercent } from '../timeline';
 
 type CalendarWindow = BloomCalendarResponse['windows'][number];
-
-export const STAGE_LABELS: Record<CalendarWindow['stage'], string> = {
-  growing: 'lead still growing',
-  mature: 'lead mature',
-  buds: 'buds showing',
-  in_flower: 'in flower',
-  faded: 'flowers faded',
-  lost: 'buds lost',
-};
 
 const LABEL_COLUMN = 300;
 const TRACK_HEIGHT = 30;
@@ -60,10 +51,9 @@ function TimelineRow({ window: w, from, to, today, on, wide, year, months }: { w
   const median = positionPercent(w.firstOpen.p50, from, to);
   const showsToday = today >= from && today <= to;
   const showsOn = on !== null && on >= from && on <= to;
-  const when =
-    w.stage === 'in_flower' || w.stage === 'faded'
-      ? `First flower ${shortDate(w.firstOpen.p50, year)}${w.lastFadedLikely ? `; likely faded by ${shortDate(w.lastFadedLikely, year)}` : ''}`
-      : `First flower between ${shortDate(w.firstOpen.p10, year)} and ${shortDate(w.firstOpen.p90, year)}, most likely ${shortDate(w.firstOpen.p50, year)}`;
+  // The lead's own story says when; an uncertain window is drawn faint and says so.
+  const uncertain = w.story.figures.uncertain;
+  void year;
   return (
     <Link href={`/plants/${w.plantId}/leads/${w.leadId}`} asChild>
       <Pressable accessibilityRole="link" style={StyleSheet.flatten([styles.row, styles.leadRow, wide ? styles.rowWide : null])} testID={`calendar-row-${w.plantTag}-${w.leadLabel}`}>
@@ -73,20 +63,20 @@ function TimelineRow({ window: w, from, to, today, on, wide, year, months }: { w
           </Text>
           <Text variant="caption" testID="calendar-row-chance">
             <Text variant="caption" style={styles.chanceWord}>
-              {chanceText(w.chance).replace(/^./, (c) => c.toUpperCase())}
+              {`${band.dots} ${chanceText(w.chance).replace(/^./, (c) => c.toUpperCase())}`}
             </Text>
-            {` · ${STAGE_LABELS[w.stage]}${w.expectedFlowers > 0 ? ` · about ${w.expectedFlowers} ${w.expectedFlowers === 1 ? 'flower' : 'flowers'}` : ''}`}
+            {` · ${w.story.chip.label}${uncertain ? ' · timing uncertain' : ''}`}
           </Text>
-          <Text variant="caption" color="textMuted">
-            {when}
+          <Text variant="caption" color="textMuted" testID="calendar-row-story">
+            {w.story.bloom}
           </Text>
         </View>
         <View style={StyleSheet.flatten([styles.track, wide ? styles.trackWide : null])} aria-hidden>
           {months.map((m) => (
             <View key={m} style={StyleSheet.flatten([styles.monthLine, { left: `${positionPercent(m, from, to)}%` }])} />
           ))}
-          <View style={StyleSheet.flatten([styles.span, { left: `${left}%`, width: `${Math.max(0, spanRight - left)}%`, backgroundColor: band.color }])} />
-          <View style={StyleSheet.flatten([styles.bar, { left: `${left}%`, width: `${Math.max(0, right - left)}%`, backgroundColor: band.color }])} />
+          <View style={StyleSheet.flatten([styles.span, { left: `${left}%`, width: `${Math.max(0, spanRight - left)}%`, backgroundColor: band.color }, uncertain ? styles.faint : null])} />
+          <View style={StyleSheet.flatten([styles.bar, { left: `${left}%`, width: `${Math.max(0, right - left)}%`, backgroundColor: band.color }, uncertain ? styles.faint : null])} />
           <View style={StyleSheet.flatten([styles.median, { left: `${median}%` }])} />
           {showsToday ? <View style={StyleSheet.flatten([styles.todayLine, { left: `${positionPercent(today, from, to)}%` }])} /> : null}
           {showsOn && on ? <View style={StyleSheet.flatten([styles.onLine, { left: `${positionPercent(on, from, to)}%` }])} /> : null}
@@ -122,6 +112,10 @@ export function TimelineLegend({ showsOn }: { showsOn: boolean }) {
           <Text variant="caption" style={styles.legendText}>Thin line: may still be in flower</Text>
         </View>
         <View style={styles.legendItem}>
+          <View style={StyleSheet.flatten([styles.swatchBar, { backgroundColor: colors.textMuted }, styles.faint])} />
+          <Text variant="caption" style={styles.legendText}>Faint bar: timing uncertain (a window of more than three months)</Text>
+        </View>
+        <View style={styles.legendItem}>
           <View style={styles.swatchToday} />
           <Text variant="caption" style={styles.legendText}>Dashed line: today</Text>
         </View>
@@ -137,6 +131,7 @@ export function TimelineLegend({ showsOn }: { showsOn: boolean }) {
 }
 
 const styles = StyleSheet.create({
+  faint: { opacity: 0.35 },
   wrap: { gap: 0, borderTopWidth: 1, borderTopColor: colors.borderSubtle },
   row: { gap: spacing.xs, paddingVertical: spacing.sm },
   rowWide: { flexDirection: 'row', alignItems: 'center', gap: spacing.lg },

@@ -12,7 +12,8 @@ import { TextField } from '@/components/text-field';
 import { fromMm, STEP, toMm, type LengthUnit } from '@/lib/units';
 import { useToday } from '@/lib/use-today';
 import { measurementInputSchema, sheathStates, type Measurement, type MeasurementInput, type SheathState } from '@/shared/schemas/records';
-import { spacing } from '@/theme';
+import { entryLooksWrong } from '@/domain/entry-check';
+import { colors, radius, spacing } from '@/theme';
 import { SHEATH_LABELS } from '../../plants/components/lead-chip';
 
 /** What the grower types: sizes in the collection's unit, as text until saved. */
@@ -44,6 +45,12 @@ function initialValues(last: Measurement | null, units: LengthUnit, today: strin
 
 export interface MeasurementFormProps {
   last: Measurement | null;
+  /** The lead's looks so far, for the second look at an entry that seems wrong (`entryLooksWrong`). */
+  earlier?: readonly Measurement[];
+  /** The lead's scatter about its curve (mm), when known. */
+  spreadMm?: number | null;
+  /** Sheath states to offer; a genus without a sheath gets none and no sheath field. */
+  sheathStates?: readonly SheathState[];
   units: LengthUnit;
   /** Saves the entry; it must throw ApiError for a refusal so the fields can show it. */
   onSave: (input: MeasurementInput) => Promise<unknown>;
@@ -56,8 +63,10 @@ export interface MeasurementFormProps {
  * typed values are converted to millimetres and checked with the shared schema before
  * anything is sent.
  */
-export function MeasurementForm({ last, units, onSave, saveLabel = 'Save measurement', testIDPrefix = 'measure' }: MeasurementFormProps) {
+export function MeasurementForm({ last, earlier, spreadMm = null, sheathStates: offered = sheathStates, units, onSave, saveLabel = 'Save measurement', testIDPrefix = 'measure' }: MeasurementFormProps) {
   const [formError, setFormError] = useState<string>();
+  // An entry that looks wrong waits here for the grower's "save as typed".
+  const [doubt, setDoubt] = useState<{ reason: string; input: MeasurementInput; values: FormValues } | null>(null);
   const [saved, setSaved] = useState(false);
   // The page's date while the browser takes the server's page over, then the grower's own.
   const today = useToday();
@@ -91,8 +100,18 @@ export function MeasurementForm({ last, units, onSave, saveLabel = 'Save measure
       }
       return;
     }
+    const looks = earlier ?? (last ? [last] : []);
+    const reason = entryLooksWrong(looks.map((m) => ({ date: m.date, heightMm: m.heightMm })), checked.data, units, spreadMm);
+    if (reason) {
+      setDoubt({ reason, input: checked.data, values });
+      return;
+    }
+    await send(checked.data, values);
+  });
+
+  const send = async (input: MeasurementInput, values: FormValues) => {
     try {
-      await onSave(checked.data);
+      await onSave(input);
       setSaved(true);
       reset({ ...values, note: '' });
     } catch (error) {
@@ -108,7 +127,7 @@ export function MeasurementForm({ last, units, onSave, saveLabel = 'Save measure
         if (!placed) setFormError(error.message);
       } else setFormError('Something went wrong; try again.');
     }
-  });
+  };
 
   const unitLabel = units === 'mm' ? 'mm' : 'inches';
   return (
@@ -129,20 +148,22 @@ export function MeasurementForm({ last, units, onSave, saveLabel = 'Save measure
           <Controller control={control} name="rootTips" render={({ field, fieldState }) => <NumberField label="New root tips" value={field.value} onChange={field.onChange} error={fieldState.error?.message} testID={`${testIDPrefix}-roots`} />} />
         </View>
       </View>
-      <Controller
-        control={control}
-        name="sheath"
-        render={({ field }) => (
-          <View style={styles.group}>
-            <Text variant="label">Sheath</Text>
-            <View style={styles.chips} role="radiogroup" aria-label="Sheath">
-              {sheathStates.map((s: SheathState) => (
-                <Chip key={s} label={SHEATH_LABELS[s]} selected={field.value === s} onPress={() => field.onChange(s)} testID={`${testIDPrefix}-sheath-${s}`} />
-              ))}
+      {offered.some((s) => s !== 'none') ? (
+        <Controller
+          control={control}
+          name="sheath"
+          render={({ field }) => (
+            <View style={styles.group}>
+              <Text variant="label">Sheath</Text>
+              <View style={styles.chips} role="radiogroup" aria-label="Sheath">
+                {(['none', ...offered.filter((s) => s !== 'none')] as SheathState[]).map((s) => (
+                  <Chip key={s} label={SHEATH_LABELS[s]} selected={field.value === s} onPress={() => field.onChange(s)} testID={`${testIDPrefix}-sheath-${s}`} />
+                ))}
+              </View>
             </View>
-          </View>
-        )}
-      />
+          )}
+        />
+      ) : null}
       <Controller control={control} name="bulbWidth" render={({ field, fieldState }) => <TextField label={`Bulb width (${unitLabel}, optional)`} value={field.value} onChangeText={field.onChange} inputMode="decimal" error={fieldState.error?.message} />} />
       <Controller control={control} name="note" render={({ field, fieldState }) => <TextField label="Note (optional)" value={field.value} onChangeText={field.onChange} error={fieldState.error?.message} testID={`${testIDPrefix}-note`} />} />
       {formError ? (
@@ -155,7 +176,26 @@ export function MeasurementForm({ last, units, onSave, saveLabel = 'Save measure
           Saved
         </Text>
       ) : null}
-      <Button label={saveLabel} onPress={submit} loading={formState.isSubmitting} testID={`${testIDPrefix}-save`} />
+      {doubt ? (
+        <View style={styles.doubt} role="alertdialog" aria-label="Is this right?" testID={`${testIDPrefix}-doubt`}>
+          <Text variant="bodyStrong">Is this right?</Text>
+          <Text>{doubt.reason}</Text>
+          <View style={styles.chips}>
+            <Button
+              label="Save as typed"
+              onPress={() => {
+                const pending = doubt;
+                setDoubt(null);
+                void send(pending.input, pending.values);
+              }}
+              testID={`${testIDPrefix}-doubt-save`}
+            />
+            <Button label="Change it" tone="quiet" onPress={() => setDoubt(null)} testID={`${testIDPrefix}-doubt-change`} />
+          </View>
+        </View>
+      ) : (
+        <Button label={saveLabel} onPress={submit} loading={formState.isSubmitting} testID={`${testIDPrefix}-save`} />
+      )}
     </View>
   );
 }
@@ -166,4 +206,5 @@ const styles = StyleSheet.create({
   half: {},
   group: { gap: spacing.xs },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
+  doubt: { gap: spacing.xs, padding: spacing.md, borderRadius: radius.md, backgroundColor: colors.warningSoft },
 });

@@ -1,6 +1,8 @@
 import { StyleSheet, View } from 'react-native';
 import { Text } from '@/components/text';
 import { formatLength, type LengthUnit } from '@/lib/units';
+import type { ChipTone } from '@/domain/story';
+import type { LeadStoryResponse } from '@/shared/schemas/engine';
 import type { LeadStatus, LeadSummary, SheathState } from '@/shared/schemas/records';
 import { colors, radius, spacing } from '@/theme';
 
@@ -20,22 +22,35 @@ export const SHEATH_LABELS: Record<SheathState, string> = {
   dry: 'Sheath dry',
 };
 
-const STATUS_TONE: Record<LeadStatus, { background: string; text: 'success' | 'text' | 'danger' | 'textMuted' }> = {
-  growing: { background: colors.successSoft, text: 'success' },
-  mature: { background: colors.surfaceMuted, text: 'text' },
-  dried_off: { background: colors.dangerSoft, text: 'danger' },
-  rotted: { background: colors.dangerSoft, text: 'danger' },
-  removed: { background: colors.surfaceMuted, text: 'textMuted' },
+const STATUS_TONE: Record<LeadStatus, ChipTone> = {
+  growing: 'ok',
+  mature: 'neutral',
+  dried_off: 'alert',
+  rotted: 'alert',
+  removed: 'neutral',
 };
 
-/** One lead at a glance: label, status in words, latest height and sheath. */
-export function LeadChip({ lead, units }: { lead: LeadSummary; units: LengthUnit }) {
-  const tone = STATUS_TONE[lead.status];
+/** Chip colours by the story's tone; the label always says the state in words. */
+export const CHIP_TONES: Record<ChipTone, { background: string; text: 'success' | 'text' | 'danger' | 'warning' | 'accent' }> = {
+  ok: { background: colors.successSoft, text: 'success' },
+  neutral: { background: colors.surfaceMuted, text: 'text' },
+  alert: { background: colors.dangerSoft, text: 'danger' },
+  warning: { background: colors.warningSoft, text: 'warning' },
+  bloom: { background: colors.accentSoft, text: 'accent' },
+};
+
+/**
+ * One lead at a glance: label, its state in words (the engine's story when there is one — so a
+ * stalled lead says "Stalled", as on Today — else its status), latest height and sheath.
+ */
+export function LeadChip({ lead, units, story }: { lead: LeadSummary; units: LengthUnit; story?: LeadStoryResponse }) {
+  const label = story?.chip.label ?? STATUS_LABELS[lead.status];
+  const tone = CHIP_TONES[story?.chip.tone ?? STATUS_TONE[lead.status]];
   const latest = lead.latest;
   return (
-    <View style={[styles.chip, { backgroundColor: tone.background }]}>
+    <View style={[styles.chip, { backgroundColor: tone.background }]} testID={`lead-chip-${lead.label}`}>
       <Text variant="label" color={tone.text}>
-        {lead.label} · {STATUS_LABELS[lead.status]}
+        {lead.label} · {label}
       </Text>
       <Text variant="caption" color="text">
         {latest ? `${formatLength(latest.heightMm, units)} · ${SHEATH_LABELS[latest.sheath]}` : 'Not measured yet'}

@@ -1,11 +1,10 @@
 import { StyleSheet, View } from 'react-native';
-import { usePlantTrendQuery } from '@/api/queries/engine';
+import { useLeadStoriesQuery, usePlantTrendQuery } from '@/api/queries/engine';
 import { Card } from '@/components/card';
 import { QueryState } from '@/components/query-state';
 import { Text } from '@/components/text';
 import { formatDate } from '@/lib/dates';
 import { formatLength, type LengthUnit } from '@/lib/units';
-import type { PlantTrendResponse } from '@/shared/schemas/engine';
 import { colors, radius, spacing } from '@/theme';
 import { trendSentence } from '../trend-story';
 
@@ -15,6 +14,8 @@ import { trendSentence } from '../trend-story';
  */
 export function PlantTrend({ collectionId, plantId, units }: { collectionId: string; plantId: string; units: LengthUnit }) {
   const trend = usePlantTrendQuery(collectionId, plantId);
+  // A lead flagged now is told as every screen tells it (its story); history as it read then.
+  const stories = useLeadStoriesQuery(collectionId);
   return (
     <Card title="Lead size by season" testID="plant-trend">
       <QueryState query={trend} loadingLabel="Working out the trend…">
@@ -56,11 +57,16 @@ export function PlantTrend({ collectionId, plantId, units }: { collectionId: str
               {t.flagHistory.length > 0 ? (
                 <View style={styles.flags}>
                   <Text variant="label">Flags over the seasons</Text>
-                  {t.flagHistory.map((f) => (
-                    <Text key={`${f.leadId}-${f.kind}`} variant="caption">
-                      {f.season} lead {f.leadLabel}: {f.kind} from {formatDate(f.firstFlaggedOn)} — {f.reason}
-                    </Text>
-                  ))}
+                  {t.flagHistory.map((f) => {
+                    const now = stories.data?.get(f.leadId)?.flag;
+                    return (
+                      <Text key={`${f.leadId}-${f.kind}`} variant="caption" testID={`flag-history-${f.leadLabel}`}>
+                        {now
+                          ? `${f.season} lead ${f.leadLabel}, flagged since ${formatDate(f.firstFlaggedOn)}: ${now}`
+                          : `${f.season} lead ${f.leadLabel}: ${f.kind} from ${formatDate(f.firstFlaggedOn)} to ${formatDate(f.lastFlaggedOn)} — as it read then, ${f.reason}`}
+                      </Text>
+                    );
+                  })}
                 </View>
               ) : null}
             </View>
