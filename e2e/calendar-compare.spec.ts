@@ -14,7 +14,7 @@ async function seriousViolations(page: Page) {
 
 interface CalendarBody {
   today: string;
-  windows: Array<{ plantTag: string; leadLabel: string; plantId: string; leadId: string; firstOpen: { p10: string; p50: string; p90: string } }>;
+  windows: Array<{ plantTag: string; leadLabel: string; plantId: string; leadId: string; firstOpen: { p10: string; p50: string; p90: string }; story: { bloom: string; chance: { word: string } | null } }>;
   inFlowerOn: Array<{ plantTag: string; leadLabel: string }> | null;
 }
 
@@ -29,7 +29,10 @@ test('Calendar draws a row per bloom window, and the in-flower list for a date m
   await expect(page.getByTestId('bloom-timeline')).toBeVisible();
   await expect(page.locator('a[data-testid^="calendar-row-"]')).toHaveCount(defaults.windows.length);
   const first = defaults.windows[0];
-  await expect(page.getByTestId(`calendar-row-${first.plantTag}-${first.leadLabel}`)).toContainText(/(likely|possible|unlikely) \(\d+%\)/i);
+  // Each row says the lead's story: its chance in the engine's one word, and the bloom sentence.
+  const firstRow = page.getByTestId(`calendar-row-${first.plantTag}-${first.leadLabel}`);
+  await expect(firstRow.getByTestId('calendar-row-chance')).toContainText(`${first.story.chance?.word ?? ''}`.replace(/^./, (c) => c.toUpperCase()));
+  await expect(firstRow.getByTestId('calendar-row-story')).toHaveText(first.story.bloom);
   await expect(page.getByTestId('forecast-trust')).toContainText(/forecasts were off by a median of \d+ days?|Not enough history yet/);
   await expect(page.getByTestId('calendar-legend')).toBeVisible();
   await keepScreenshot(page, 'calendar', info.project.name);

@@ -43,13 +43,12 @@ test('a lead chart draws, and its summary states the engine’s figures', async 
   for (let i = 0; i < data.length; i += image.channels) if (data[i] + data[i + 1] + data[i + 2] < 600) drawn += 1;
   expect(drawn / (image.width * image.height)).toBeGreaterThan(0.01);
 
-  const last = forecast.priorYears.lastSeason;
-  const summary = page.getByTestId('chart-summary');
-  if (last?.sizeRatio != null) {
-    await expect(summary).toContainText(`${Math.round(last.sizeRatio * 100)}% of last season's size at day ${forecast.priorYears.ageDays}`);
-  } else {
-    await expect(summary).toContainText(`at day ${forecast.priorYears.ageDays}`);
-  }
+  // The page says what the engine's one story says, word for word.
+  const story = forecast.story;
+  await expect(page.getByTestId('chart-summary')).toHaveText([story.size, story.growth].filter(Boolean).join(' '));
+  await expect(page.getByTestId('bloom-summary')).toContainText(story.bloom);
+  await expect(page.getByTestId('trust-summary')).toHaveText(forecast.trustSentence);
+  await expect(page.getByTestId('lead-story-chip')).toHaveText(story.chip.label);
   await keepScreenshot(page, 'lead-chart', info.project.name);
   expect(await seriousViolations(page)).toEqual([]);
 

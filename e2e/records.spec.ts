@@ -46,16 +46,16 @@ test('a grower adds a plant and a lead, records three measurements, marks the sh
     await expect(page.getByTestId(`measurement-${date}`)).toBeVisible();
   }
 
+  // Today already has a look: the mark sets its sheath and invents no new height.
   await page.getByTestId('mark-sheath-budded').click();
   await expect(page.getByTestId('lead-summary')).toContainText('buds in sheath');
+  await expect(page.getByTestId('mark-height')).toHaveCount(0);
 
   await page.reload();
   await expect(page.getByTestId('lead-screen')).toBeVisible();
-  for (const [date, height] of entries) {
-    // Today has two rows: the measurement and the sheath mark that carried its height forward.
-    await expect(page.getByTestId(`measurement-${date}`).first()).toContainText(`${height} mm`);
-  }
-  await expect(page.getByTestId('measurement-table').getByRole('row')).toHaveCount(5);
+  for (const [date, height] of entries) await expect(page.getByTestId(`measurement-${date}`)).toContainText(`${height} mm`);
+  // One row per look (header + three): no copied height.
+  await expect(page.getByTestId('measurement-table').getByRole('row')).toHaveCount(4);
   await expect(page.getByTestId('lead-summary')).toContainText('88 mm');
   await expect(page.getByTestId('lead-summary')).toContainText('buds in sheath');
   await keepScreenshot(page, 'lead', info.project.name);

@@ -36,6 +36,7 @@ import { DEMO_SEED, generateCollection } from '../../db/seed/generate';
 import { seedDemo } from '../../db/seed/index';
 import { createAuth } from '../../server/auth';
 import { attentionItems, collectionBacktest, currentForecasts, todayUtc } from '../../server/routes/engine';
+import { printSelfCheck, selfCheckLines } from './self-check';
 import { buildEngineData, ShapeCache, type EngineData } from '../../server/services/engine-data';
 
 const ROOT = path.join(__dirname, '..', '..');
@@ -205,6 +206,18 @@ function inMemory(today: string) {
   for (const seed of BACKTEST_SEEDS) {
     const g = generateCollection({ seed, today, plants: 150, seasons: SIZE.seasons, leadsPerPlantPerSeason: 2, measurementsPerLead: 15, idNamespace: 11 });
     backtestRow(`150 plants × ${SIZE.seasons} seasons, seed ${seed}`, buildEngineData({ plants: g.plants, leads: g.leads, measurements: g.measurements, blooms: g.bloomRecords }));
+  }
+  // The same by the stage the lead was at when forecast, against the stage targets.
+  console.log('\n  Self-check by stage:');
+  const lines = selfCheckLines(today);
+  printSelfCheck(lines);
+  for (const l of lines) {
+    const f = l.figures;
+    row(
+      `self-check, ${l.collection}, ${l.stage}`,
+      `median ${f.medianAbsErrorDays ?? '–'} d vs same-day ${f.naive.medianAbsErrorDays ?? '–'} d; ${f.shareInside80 === null ? '–' : Math.round(f.shareInside80 * 100)}% inside (${f.n} forecasts)`,
+      l.misses.length ? `missed: ${l.misses.join('; ')}` : 'met',
+    );
   }
   return { forecastMs, recomputeMs: medianOf(again), attentionMs, med };
 }

@@ -20,8 +20,9 @@ import {
   type BloomHistory,
   type ComparePlant,
   type IsoDate,
-  plantSelfCheck,
+  plantTrust,
   storyOf,
+  trustSentence,
   type LeadForecast,
   type LeadShape,
   type LeadStory,
@@ -121,7 +122,6 @@ export function currentForecasts(data: EngineData, today: IsoDate, shapeCache?: 
     const shapes = shapesOf(p, today, shapeCache);
     const leads = currentLeads(p, today);
     if (leads.length === 0) continue;
-    const check = plantSelfCheck(p.plant, p.leads);
     for (const h of leads) {
       const f = forecastLead({
         plant: p.plant,
@@ -130,9 +130,8 @@ export function currentForecasts(data: EngineData, today: IsoDate, shapeCache?: 
         today,
         priorShapes: shapes(h.lead.season),
         seasonStartMonth: data.seasonStartMonth,
-        heldOutErrors: check.heldOutErrors,
       });
-      if (f) out.push({ p, h, f, story: storyOf(h, f, today, data.units, check) });
+      if (f) out.push({ p, h, f, story: storyOf(h, f, today, data.units) });
     }
   }
   return out;
@@ -401,7 +400,6 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
     const own = p.ownLeads.find((h) => h.lead.id === leadId);
     if (!own) throw notFound('That lead');
     const { lead } = own;
-    const check = plantSelfCheck(p.plant, p.leads);
     const f = forecastLead({
       plant: p.plant,
       leads: p.leads,
@@ -409,8 +407,8 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
       today,
       priorShapes: shapeCache.get(p, lead.season, today),
       seasonStartMonth: loaded.data.seasonStartMonth,
-      heldOutErrors: check.heldOutErrors,
     })!;
+    const trust = plantTrust(p.plant, p.leads);
     res.json(
       checked(leadForecastSchema, {
         today,
@@ -419,8 +417,9 @@ export function engineRoutes({ db, fingerprints }: AppContext): Router {
         priorYears: f.priorYears,
         flags: f.flags,
         bloom: f.bloom,
-        story: storyOf(own, f, today, loaded.data.units, check),
-        trust: check.figures,
+        story: storyOf(own, f, today, loaded.data.units),
+        trust,
+        trustSentence: trustSentence(f, trust),
       }),
     );
   });

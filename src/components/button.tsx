@@ -39,7 +39,7 @@ export function Button({ label, tone = 'primary', loading = false, disabled, sty
       ]}
     >
       <View style={styles.row}>
-        {loading ? <ActivityIndicator size="small" color={colors[look.text]} /> : null}
+        {loading ? <ActivityIndicator size="small" color={colors[look.text]} accessibilityLabel={`${label}: working`} /> : null}
         <Text variant="label" color={look.text} style={styles.label}>
           {label}
         </Text>

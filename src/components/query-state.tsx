@@ -19,7 +19,7 @@ export function QueryState<T>({ query, isEmpty, empty, loadingLabel = 'Loadingâ€
   if (query.isPending) {
     return (
       <View style={styles.center} accessibilityRole="progressbar" accessibilityLabel={loadingLabel} testID="query-loading">
-        <ActivityIndicator color={colors.accent} size="large" />
+        <ActivityIndicator color={colors.accent} size="large" accessibilityLabel={loadingLabel} />
         <Text color="textMuted">{loadingLabel}</Text>
       </View>
     );

@@ -9,7 +9,7 @@ import type { LeadFlag } from './flags';
 import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
 import { formatDate, type LengthUnit } from './words';
 import type { LeadShape } from './growth-curve';
-import { earlierLeadShapes, forecastLead, plantSelfCheck, storyOf, type PlantSelfCheck } from './lead-forecast';
+import { earlierLeadShapes, forecastLead, storyOf } from './lead-forecast';
 import { uncertainWindow, type LeadStory } from './story';
 import type { IsoDate, Measurement, Plant } from './types';
 
@@ -42,8 +42,6 @@ export interface AttentionPlant {
   leads: readonly BloomHistory[];
   /** Fitted shapes of the plant's earlier leads; computed here when absent. */
   priorShapes?: readonly LeadShape[];
-  /** The plant's self-check (`plantSelfCheck`); computed here when absent. */
-  selfCheck?: PlantSelfCheck;
 }
 
 export interface AttentionOptions {
@@ -93,7 +91,7 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
   const items: AttentionItem[] = [];
 
   const units = options.units ?? 'mm';
-  for (const { plant, leads, priorShapes, selfCheck } of plants) {
+  for (const { plant, leads, priorShapes } of plants) {
     const genus = (options.genusDefaults ?? genusDefaultsFor)(plant.genus);
     // Only the plant's own leads are its current leads: a division's history also holds its
     // parent's leads (another plantId), which inform the forecasts but are not reported here.
@@ -110,14 +108,12 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
       }
       return shapes;
     };
-    let check = selfCheck;
     for (const h of visible) {
       const lead = h.lead;
       if (lead.status === 'removed') continue;
       if (lead.season !== latestSeason && lead.status !== 'growing') continue;
       const target = { plantId: plant.id, leadId: lead.id };
       const last = latestMeasurement(h, today);
-      check ??= plantSelfCheck(plant, leads, genus);
 
       // The same per-lead forecast and story as the lead page.
       const forecast = forecastLead({
@@ -128,10 +124,9 @@ export function attentionList(plants: readonly AttentionPlant[], today: IsoDate,
         genusDefaults: genus,
         priorShapes: shapesFor(lead.season),
         seasonStartMonth: options.seasonStartMonth,
-        heldOutErrors: check.heldOutErrors,
       });
       if (!forecast) continue;
-      const story = storyOf(h, forecast, today, units, check);
+      const story = storyOf(h, forecast, today, units);
 
       if (lead.status === 'growing') {
         const since = last ? last.date : lead.firstSeen;

@@ -13,7 +13,7 @@
  * falls as the lead stays closed past its likely day, and past its latest plausible day the lead
  * is probably not flowering this season.
  */
-import { mean, median, sampleVariance } from 'simple-statistics';
+import { mean, median, quantile, sampleVariance } from 'simple-statistics';
 import { budsInSheathOn, budsVisibleOn, flowersFromSheath, latestSheath, type BloomStage } from './bloom-stage';
 import {
   byQuantiles,
@@ -89,7 +89,10 @@ export const EMPTY_SHEATH_WIDEN = 1.5;
  * REFERENCES.md), which a normal blend alone would call impossible after a few weeks (chosen).
  */
 export const SEASON_OFF_HABIT_WEIGHT = 0.1;
-/** Fewest held-out errors of a plant at a stage before they set the narrowest window (chosen). */
+/**
+ * Fewest held-out errors of the plant (each past season forecast from the others, the way this
+ * lead's forecast is made) before they set the narrowest window (chosen).
+ */
 export const MIN_HELD_OUT_ERRORS = 2;
 
 export type { BloomStage } from './bloom-stage';
@@ -432,13 +435,6 @@ export interface BloomForecastInput {
    * seasons older is history: it flowered (a record) or it did not, and gets no forecast.
    */
   currentSeason?: number;
-  /**
-   * The plant's own held-out errors (days, forecast minus actual) of forecasts made at each stage
-   * (the self-check, `backtestBloomForecasts`). With at least MIN_HELD_OUT_ERRORS at the lead's
-   * stage, the window is never narrower than they support: half widths of at least z₀.₉ × their
-   * root mean square.
-   */
-  heldOutErrors?: Partial<Record<ForecastStage, readonly number[]>>;
 }
 
 /**
@@ -467,6 +463,8 @@ export interface SeasonalBlend {
   /** Past first flowers behind the seasonal day, and the weight the seasonal day got (0–1). */
   seasons: number;
   seasonalWeight: number;
+  /** The blend's own leave-one-season-out errors on the plant's past seasons (days, forecast minus actual). */
+  heldOutErrors: number[];
 }
 
 const meanSquare = (xs: readonly number[]) => xs.reduce((a, x) => a + x * x, 0) / xs.length;
@@ -540,7 +538,9 @@ export function blendWithSeason(
   const blendVar = m ? shrunk(meanSquare(eI.map((e, i) => wI * e + wS * eS[i])), modelVar) : modelVar;
   const sd = Math.sqrt(blendVar + (wI * extraSdDays) ** 2);
   const at = (z: number) => addDays(start, Math.round(centre + sd * z));
-  return { window: { p10: at(Z10), p50: at(0), p90: at(Z90) }, centreDays: centre, sdDays: sd, seasons: n, seasonalWeight: wS };
+  // e are actual minus forecast; held-out errors are kept as forecast minus actual.
+  const heldOutErrors = eI.map((e, i) => -(wI * e + wS * eS[i]));
+  return { window: { p10: at(Z10), p50: at(0), p90: at(Z90) }, centreDays: centre, sdDays: sd, seasons: n, seasonalWeight: wS, heldOutErrors };
 }
 
 const pct = (x: number) => `${Math.round(x * 100)}%`;
@@ -568,6 +568,18 @@ function predictedMaturity(fit: LeadCurveFit | null, history: readonly BloomHist
   const lag = median(lags) * (n / (n + k));
   const variance = n >= 2 ? (n * sampleVariance(lags) + k * MATURITY_DATE_SD_DAYS ** 2) / (n + k) : MATURITY_DATE_SD_DAYS ** 2;
   return { date: addDays(fit.maturityDate, Math.round(lag)), sdDays: Math.sqrt(variance) };
+}
+
+/**
+ * Leave-one-season-out errors (days, forecast minus actual) of the shrunk interval on the plant's
+ * own past intervals: each season forecast from the others, as `shrinkLogInterval` would.
+ */
+function intervalHeldOutErrors(days: readonly number[], genus: LogNormal): number[] {
+  if (days.length < 2) return [];
+  return days.map((d, i) => {
+    const others = days.filter((_, j) => j !== i);
+    return Math.exp(shrinkLogInterval(others, genus, BLOOM_SHRINKAGE_K, { maxShiftSe: SHRINKAGE_MAX_SHIFT_SE }).mu) - d;
+  });
 }
 
 /** Levels at which the time buds still need is averaged over (midpoints of 16 equal shares). */
@@ -719,6 +731,8 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
   // counted from `usualStart` (buds, maturity, or the predicted maturity).
   let usual: DayDistribution | null = null;
   let usualStart = todayDay;
+  // The plant's own held-out errors of this very forecast (the window is never narrower).
+  let heldOut: number[] = [];
   if (!open && stage !== 'lost' && !pastSeason) {
     const predicted = fromBuds || mature ? null : predictedMaturity(input.fit ?? null, history, genus);
     let start = fromBuds ? buds : (mature ?? predicted?.date ?? null);
@@ -749,6 +763,7 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
       seasons = fromBudsInterval.n;
       weight = fromBudsInterval.weight;
       usual = logNormalAfter(toDayNumber(start), fromBudsInterval);
+      heldOut = state.budsInSheath ? intervalHeldOutErrors(sheathBudsDays, genusSB2O) : intervalHeldOutErrors(budsToOpenDays, genusB2O);
     } else {
       const sh = shrinkLogInterval(matureToOpenDays, genusM2O, BLOOM_SHRINKAGE_K, shrinkOptions);
       seasons = sh.n;
@@ -766,6 +781,7 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
       // possible, and sets how late is still plausible.
       const offHabit = logNormalAfter(toDayNumber(start), { mu: sh.mu, sigma: Math.max(sh.sigma, genusM2O.sigma) }, extraSd);
       usual = blend ? mixture(normalAfter(toDayNumber(start), blend.centreDays, blend.sdDays), offHabit, 1 - SEASON_OFF_HABIT_WEIGHT) : interval;
+      heldOut = blend ? blend.heldOutErrors : intervalHeldOutErrors(matureToOpenDays, genusM2O);
       if (blend) {
         notes.push(
           `blended with the plant's usual first-flower day (${blend.seasons} earlier ${blend.seasons === 1 ? 'bloom' : 'blooms'}, weight ${Math.round(blend.seasonalWeight * 100)}%); window sized from how far its past seasons were off`,
@@ -812,9 +828,17 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
       timing = 'unlikely';
       notes.push(`not open by ${today} and past ${latestPlausible}, the latest date its record makes plausible`);
     } else {
+      // Buds not yet recorded as visible still have to show and open: no flower sooner than buds
+      // seen today would give (so a lead further along never gets a later forecast).
+      const afterVisibleToday = stage === 'buds_visible' ? null : logNormalAfter(todayDay, budsToOpen);
       const at = (q: number) => {
         const z = normalQuantile(q);
-        const day = Math.max(conditionedDay(usual!, q, goneAll), afterNoBuds ? afterNoBuds.dayAt(z) : -Infinity, todayDay);
+        const day = Math.max(
+          conditionedDay(usual!, q, goneAll),
+          afterNoBuds ? afterNoBuds.dayAt(z) : -Infinity,
+          afterVisibleToday ? afterVisibleToday.dayAt(z) : -Infinity,
+          todayDay,
+        );
         return fromDayNumber(Math.round(day));
       };
       firstOpen = { p10: at(0.1), p50: at(0.5), p90: at(0.9) };
@@ -823,9 +847,9 @@ export function forecastBloom(input: BloomForecastInput): BloomForecast {
       if (gone > 1e-4) {
         notes.push(`not open by ${today}: window is what its record leaves after today (${pct(gone)} of such intervals would have been over by now)`);
       }
-      const errors = input.heldOutErrors?.[forecastStageOf(stage) ?? 'growing'];
-      if (errors && errors.length >= MIN_HELD_OUT_ERRORS) {
-        const half = Z80_HALF * Math.sqrt(meanSquare(errors));
+      if (heldOut.length >= MIN_HELD_OUT_ERRORS) {
+        // The half width that held 80% of the plant's own past errors: no narrower than its record.
+        const half = quantile(heldOut.map((e) => Math.abs(e)), 0.8);
         const halfNow = (toDayNumber(firstOpen.p90) - toDayNumber(firstOpen.p10)) / 2;
         if (half > halfNow) {
           firstOpen = widenWindow(firstOpen, half, today);

@@ -3,9 +3,9 @@
  * flags and bloom window, computed consistently from the same inputs.
  */
 import type { LengthUnit } from './words';
-import { backtestBloomForecasts, heldOutErrorsByStage, type BacktestFigures, type BacktestSummary } from './backtest';
-import { forecastBloom, forecastStageOf, type BloomForecast, type BloomHistory, type ForecastStage } from './bloom-window';
-import { leadStory, type LeadStory } from './story';
+import { backtestBloomForecasts, type BacktestSummary } from './backtest';
+import { forecastBloom, forecastStageOf, type BloomForecast, type BloomHistory } from './bloom-window';
+import { leadStory, trustWords, type LeadStory } from './story';
 import { seasonOf } from './dates';
 import { leadFlags, type LeadFlag } from './flags';
 import { genusDefaultsFor, type GenusDefaults } from './genus-defaults';
@@ -33,31 +33,24 @@ export function earlierLeadShapes(leads: readonly BloomHistory[], genus: GenusDe
   return shapes;
 }
 
-/** A plant's self-check on its own leads: held-out errors (for the window floor) and figures by stage (for its trust line). */
-export interface PlantSelfCheck {
-  heldOutErrors: Partial<Record<ForecastStage, number[]>>;
-  trustByStage: Record<ForecastStage, BacktestFigures>;
-  /** The headline figures (forecasts made at maturity) with those by stage. */
-  figures: Omit<BacktestSummary, 'rows'>;
-}
-
 /**
  * The plant's self-check (`backtestBloomForecasts`) on its own leads, the history it inherits
- * counting as history only.
+ * counting as history only: the headline figures and those by stage, for its trust line.
  */
-export function plantSelfCheck(plant: Pick<Plant, 'id' | 'genus'>, leads: readonly BloomHistory[], genus?: GenusDefaults): PlantSelfCheck {
-  const { rows, ...figures } = backtestBloomForecasts([{ plant, leads }], genus ? () => genus : undefined);
-  return { heldOutErrors: heldOutErrorsByStage(rows), trustByStage: figures.byStage, figures };
+export function plantTrust(plant: Pick<Plant, 'id' | 'genus'>, leads: readonly BloomHistory[], genus?: GenusDefaults): Omit<BacktestSummary, 'rows'> {
+  const { rows: _rows, ...figures } = backtestBloomForecasts([{ plant, leads }], genus ? () => genus : undefined);
+  return figures;
 }
 
-/** The plant's own held-out errors by stage (see `plantSelfCheck`). */
-export function plantHeldOutErrors(plant: Pick<Plant, 'id' | 'genus'>, leads: readonly BloomHistory[], genus?: GenusDefaults): Partial<Record<ForecastStage, number[]>> {
-  return plantSelfCheck(plant, leads, genus).heldOutErrors;
+/** The trust line of a lead: how far its plant's past forecasts made at the lead's stage were off. */
+export function trustSentence(forecast: LeadForecast, trust: Omit<BacktestSummary, 'rows'>): string {
+  const stage = forecastStageOf(forecast.bloom.stage);
+  return trustWords(stage, stage ? trust.byStage[stage] : null);
 }
 
-/** The story of a forecast lead (`leadStory`), with the plant's trust figures at its stage. */
-export function storyOf(h: Pick<BloomHistory, 'lead'>, forecast: LeadForecast, today: IsoDate, units: LengthUnit, check?: PlantSelfCheck): LeadStory {
-  return leadStory({ lead: h.lead, forecast, today, units, trustByStage: check?.trustByStage, forecastStage: forecastStageOf(forecast.bloom.stage) });
+/** The story of a forecast lead (`leadStory`). */
+export function storyOf(h: Pick<BloomHistory, 'lead'>, forecast: LeadForecast, today: IsoDate, units: LengthUnit): LeadStory {
+  return leadStory({ lead: h.lead, forecast, today, units });
 }
 
 export interface LeadForecast {
@@ -85,12 +78,6 @@ export function forecastLead(input: {
   readings?: readonly TemperatureReading[];
   /** The collection's season start month: a lead two or more growth years old gets no forecast. */
   seasonStartMonth?: number;
-  /**
-   * The plant's held-out errors by stage (`heldOutErrorsByStage` of its self-check), which set
-   * the narrowest window; worked out here from `leads` when not given (pass them to share the work
-   * between a plant's leads).
-   */
-  heldOutErrors?: Partial<Record<ForecastStage, readonly number[]>>;
 }): LeadForecast | null {
   const current = input.leads.find((h) => h.lead.id === input.leadId);
   if (!current) return null;
@@ -108,7 +95,6 @@ export function forecastLead(input: {
     readings: input.readings,
     flags,
     currentSeason: input.seasonStartMonth === undefined ? undefined : seasonOf(input.today, input.seasonStartMonth),
-    heldOutErrors: input.heldOutErrors ?? plantHeldOutErrors(input.plant, input.leads, genus),
   });
   return { leadId: current.lead.id, fit, priorYears, flags, bloom };
 }

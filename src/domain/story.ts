@@ -84,8 +84,6 @@ export interface LeadStory {
   /** When and whether it flowers. */
   bloom: string;
   chance: { value: number; level: ChanceLevel; word: string; dots: string } | null;
-  /** How far this plant's own past forecasts at this stage were off. */
-  trust: string;
   /** The figures behind the sentences, for screens that lay them out. */
   figures: {
     ageDays: number | null;
@@ -203,7 +201,18 @@ const WAITING_ON: Partial<Record<BloomStage, string>> = {
   sheath_dry: 'until buds show',
 };
 
+/** For an empty or dry sheath, what it means, said with the timing. */
+function sheathNote(b: BloomForecast): string {
+  if (b.stage === 'sheath_empty' && b.stageDate) return ` The sheath looked empty on ${formatDate(b.stageDate)}: it may still bud later, or wait for next season.`;
+  if (b.stage === 'sheath_dry' && b.stageDate) return ` The sheath was dry on ${formatDate(b.stageDate)}: some plants bloom from a dry sheath months later.`;
+  return '';
+}
+
 function bloomOf(lead: Pick<Lead, 'season'>, forecast: LeadForecast): string {
+  return bloomTiming(lead, forecast) + (forecast.bloom.timing === 'forecast' || forecast.bloom.timing === 'late' ? sheathNote(forecast.bloom) : '');
+}
+
+function bloomTiming(lead: Pick<Lead, 'season'>, forecast: LeadForecast): string {
   const b = forecast.bloom;
   const w = b.firstOpen;
   const flowers = b.expectedFlowers.count > 0 ? `, about ${plural(b.expectedFlowers.count, 'flower')}` : '';
@@ -230,18 +239,8 @@ function bloomOf(lead: Pick<Lead, 'season'>, forecast: LeadForecast): string {
   }
 }
 
-/**
- * The story of one lead on `today` from its forecast. `trustByStage` are the plant's own
- * self-check figures by stage (the lead's current stage is told).
- */
-export function leadStory(input: {
-  lead: Pick<Lead, 'id' | 'status' | 'season'>;
-  forecast: LeadForecast;
-  today: string;
-  units: LengthUnit;
-  trustByStage?: Partial<Record<ForecastStage, StageTrust>>;
-  forecastStage: ForecastStage | null;
-}): LeadStory {
+/** The story of one lead on `today` from its forecast. */
+export function leadStory(input: { lead: Pick<Lead, 'id' | 'status' | 'season'>; forecast: LeadForecast; today: string; units: LengthUnit }): LeadStory {
   const { lead, forecast, today, units } = input;
   const b = forecast.bloom;
   const matured = lead.status !== 'growing' || (b.stage !== 'growing' && b.stage !== 'lost');
@@ -259,7 +258,6 @@ export function leadStory(input: {
     flag,
     bloom: bloomOf(lead, forecast),
     chance: showChance ? { value: b.chance, ...pick(chanceLevel(b.chance)) } : null,
-    trust: trustWords(input.forecastStage, input.forecastStage ? (input.trustByStage?.[input.forecastStage] ?? null) : null),
     figures: {
       ageDays: forecast.priorYears.ageDays,
       heightMm: forecast.priorYears.heightMm,

@@ -3,8 +3,9 @@ import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
   attentionList,
-  plantSelfCheck,
+  plantTrust,
   storyOf,
+  trustSentence,
   backtestBloomForecasts,
   compareGroups,
   forecastLead,
@@ -107,7 +108,8 @@ describe('GET /leads/:leadId/forecast', () => {
     const { rows: _rows, ...trust } = backtestBloomForecasts([{ plant: d.plant, leads: d.withHistory }]);
     expect(body.trust).toEqual(wire(trust));
     // The story the page shows is the domain's own, from the same forecast.
-    expect(body.story).toEqual(wire(storyOf(d.own.find((h) => h.lead.id === fx.leadIds['HL-001/A0'])!, expected, body.today, 'mm', plantSelfCheck(d.plant, d.withHistory))));
+    expect(body.story).toEqual(wire(storyOf(d.own.find((h) => h.lead.id === fx.leadIds['HL-001/A0'])!, expected, body.today, 'mm')));
+    expect(body.trustSentence).toBe(trustSentence(expected, plantTrust(d.plant, d.withHistory)));
     expect(body.trust.n).toBe(3);
     expect(body.lead).toMatchObject({ id: fx.leadIds['HL-001/A0'], label: 'A0', status: 'growing' });
     expect(body.fit.interval80.lowMm).toBeLessThanOrEqual(body.fit.matureHeightMm);
@@ -421,5 +423,26 @@ describe('engine contracts', () => {
     expect(leadForecastSchema.safeParse(withFit({ interval80: { lowMm: good.fit.matureHeightMm + 1, highMm: good.fit.matureHeightMm + 2 } })).success).toBe(false);
     expect(leadForecastSchema.safeParse({ ...good, bloom: { ...good.bloom, chance: 1.2 } }).success).toBe(false);
     expect(leadForecastSchema.safeParse(JSON.parse(JSON.stringify(good))).success).toBe(true);
+  });
+});
+
+describe('one story per lead across the answers', () => {
+  it('every answer that speaks of a lead carries the same story: lead stories, its forecast, Today and the Calendar', async () => {
+    const stories = await viewer.get(`${base()}/lead-stories`);
+    expect(stories.status).toBe(200);
+    expect(stories.body.stories.length).toBeGreaterThan(3);
+    const byLead = new Map<string, unknown>(stories.body.stories.map((s: { leadId: string; story: unknown }) => [s.leadId, s.story]));
+    for (const { leadId, story } of stories.body.stories as Array<{ leadId: string; story: { leadId: string } }>) {
+      expect(story.leadId).toBe(leadId);
+      const forecast = await viewer.get(`${base()}/leads/${leadId}/forecast`);
+      expect(forecast.body.story, leadId).toEqual(story);
+    }
+    const attention = await viewer.get(`${base()}/attention`);
+    for (const item of attention.body.items as Array<{ target: { leadId: string }; story: unknown; kind: string; reason: string }>) {
+      expect(item.story).toEqual(byLead.get(item.target.leadId));
+      if (item.kind === 'bloom') expect(item.reason).toBe((item.story as { bloom: string }).bloom);
+    }
+    const calendar = await viewer.get(`${base()}/calendar`);
+    for (const w of calendar.body.windows as Array<{ leadId: string; story: unknown }>) expect(w.story).toEqual(byLead.get(w.leadId));
   });
 });

@@ -274,7 +274,7 @@ function GrowthCard({ lead, collectionId, units }: { lead: LeadDetail; collectio
                 {story.bloom}
               </Text>
               <Text variant="caption" color="textMuted" testID="trust-summary">
-                {story.trust}
+                {f.trustSentence}
               </Text>
             </View>
           );

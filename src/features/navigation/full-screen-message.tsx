@@ -6,7 +6,7 @@ import { colors, spacing } from '@/theme';
 export function FullScreenMessage({ message, loading = false }: { message: string; loading?: boolean }) {
   return (
     <View style={styles.root} accessibilityRole={loading ? 'progressbar' : undefined} accessibilityLabel={message}>
-      {loading ? <ActivityIndicator size="large" color={colors.accent} /> : null}
+      {loading ? <ActivityIndicator size="large" color={colors.accent} accessibilityLabel={message} /> : null}
       <Text color="textMuted">{message}</Text>
     </View>
   );

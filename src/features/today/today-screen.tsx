@@ -84,9 +84,9 @@ function AttentionRow({ item, tone }: { item: Item; tone: 'danger' | 'warning' |
             </Text>
             {item.reason}
           </Text>
-          {item.date ? (
+          {item.date && (item.kind === 'stalled' || item.kind === 'aborted') ? (
             <Text variant="caption" color="textMuted">
-              {formatDate(item.date)}
+              since {formatDate(item.date)}
             </Text>
           ) : null}
         </View>

@@ -162,7 +162,6 @@ export const leadStorySchema = z.object({
   flag: z.string().nullable(),
   bloom: z.string(),
   chance: z.object({ value: share, level: z.enum(chanceLevels), word: z.string(), dots: z.string() }).nullable(),
-  trust: z.string(),
   figures: z.object({
     ageDays: int.nullable(),
     heightMm: num.nullable(),
@@ -235,6 +234,8 @@ export const leadForecastSchema = z.object({
   story: leadStorySchema,
   /** How far this plant's own bloom forecasts were off in earlier seasons (inherited seasons included). */
   trust: backtestFiguresSchema,
+  /** The same at the lead's stage, in words. */
+  trustSentence: z.string(),
 });
 
 // ── GET /lead-stories ─────────────────────────────────────────────────────────────────

@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import type { BloomForecast } from '@/domain/bloom-window';
 import type { LeadForecast } from '@/domain/lead-forecast';
-import { chanceLevel, CHANCE_LEVELS, chanceWords, leadStory, monthSpan, uncertainWindow, windowWords } from '@/domain/story';
+import { chanceLevel, CHANCE_LEVELS, chanceWords, leadStory, monthSpan, trustWords, uncertainWindow, windowWords } from '@/domain/story';
 
 const bloom = (overrides: Partial<BloomForecast> = {}): BloomForecast => ({
   leadId: 'l',
@@ -60,7 +60,7 @@ function forecast(overrides: { bloom?: Partial<BloomForecast>; sizeRatio?: numbe
 }
 
 const growing: { id: string; status: 'growing' | 'mature'; season: number } = { id: 'l', status: 'growing', season: 2026 };
-const story = (f: LeadForecast, lead = growing, today = '2026-06-01') => leadStory({ lead, forecast: f, today, units: 'mm', forecastStage: 'growing' });
+const story = (f: LeadForecast, lead = growing, today = '2026-06-01') => leadStory({ lead, forecast: f, today, units: 'mm' });
 
 describe('one story per lead', () => {
   it('names each size figure: against last season at the same age and against its final size', () => {
@@ -113,21 +113,15 @@ describe('one story per lead', () => {
   });
 
   it('writes lengths in the collection\'s unit (210 mm = 8.3 in)', () => {
-    const s = leadStory({ lead: growing, forecast: forecast(), today: '2026-06-01', units: 'in', forecastStage: 'growing' });
+    const s = leadStory({ lead: growing, forecast: forecast(), today: '2026-06-01', units: 'in' });
     expect(s.growth).toContain('about 8.3 in');
   });
 
   it('tells the trust figures at the lead\'s own stage', () => {
-    const s = leadStory({
-      lead: growing,
-      forecast: forecast(),
-      today: '2026-06-01',
-      units: 'mm',
-      forecastStage: 'buds',
-      trustByStage: { buds: { n: 4, medianAbsErrorDays: 3, shareInside80: 0.75, naive: { n: 4, medianAbsErrorDays: 17 } } },
-    });
-    expect(s.trust).toBe("Over 4 past seasons, this plant's forecasts made once buds were seen were off by a median of 3 days; 3 of 4 fell inside the window. Expecting last season's date would have been off by 17 days.");
-    expect(leadStory({ lead: growing, forecast: forecast(), today: '2026-06-01', units: 'mm', forecastStage: 'buds' }).trust).toMatch(/^Not enough history yet/);
+    const figures = { n: 4, medianAbsErrorDays: 3, shareInside80: 0.75, naive: { n: 4, medianAbsErrorDays: 17 } };
+    expect(trustWords('buds', figures)).toBe("Over 4 past seasons, this plant's forecasts made once buds were seen were off by a median of 3 days; 3 of 4 fell inside the window. Expecting last season's date would have been off by 17 days.");
+    expect(trustWords('buds', { ...figures, n: 0, medianAbsErrorDays: null })).toMatch(/^Not enough history yet/);
+    expect(trustWords(null, null)).toBe('Nothing left to forecast for this lead.');
   });
 });
 

@@ -62,10 +62,12 @@ function TimelineRow({ window: w, from, to, today, on, wide, year, months }: { w
             {w.plantTag} · lead {w.leadLabel}
           </Text>
           <Text variant="caption" testID="calendar-row-chance">
-            <Text variant="caption" style={styles.chanceWord}>
-              {`${band.dots} ${chanceText(w.chance).replace(/^./, (c) => c.toUpperCase())}`}
-            </Text>
-            {` · ${w.story.chip.label}${uncertain ? ' · timing uncertain' : ''}`}
+            {w.story.chance ? (
+              <Text variant="caption" style={styles.chanceWord}>
+                {`${band.dots} ${chanceText(w.chance).replace(/^./, (c) => c.toUpperCase())} · `}
+              </Text>
+            ) : null}
+            {`${w.story.chip.label}${uncertain ? ' · timing uncertain' : ''}`}
           </Text>
           <Text variant="caption" color="textMuted" testID="calendar-row-story">
             {w.story.bloom}
