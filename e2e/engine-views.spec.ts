@@ -69,3 +69,19 @@ test('Plants, Rounds and Collection pass axe with no serious or critical violati
     expect(await seriousViolations(page), tab).toEqual([]);
   }
 });
+
+test('a screen still loading passes axe: its spinner is named', async ({ page }) => {
+  await signInAs(page, 'owner');
+  // Hold the walk's answer back so the loading state stays on screen.
+  let release: () => void = () => {};
+  const held = new Promise<void>((resolve) => (release = resolve));
+  await page.route(/\/api\/collections\/[^/]+\/rounds$/, async (route) => {
+    await held;
+    await route.continue();
+  });
+  await page.getByTestId('tab-rounds').click();
+  await expect(page.getByTestId('rounds-screen').getByTestId('query-loading')).toBeVisible();
+  expect(await seriousViolations(page)).toEqual([]);
+  release();
+  await expect(page.getByTestId('rounds-stop')).toBeVisible();
+});
