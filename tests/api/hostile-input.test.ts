@@ -331,6 +331,27 @@ describe('hostile input', () => {
     expect(await databaseState(), `${route} changed the database (seed ${SEED})`).toEqual(before);
   });
 
+  // Names every object inherits: a "which fields were sent" check that asks `key in parsed`
+  // finds them on the prototype and saves (bumping the version) though nothing was sent.
+  const INHERITED_NAMES = ['toString', 'constructor', 'valueOf', 'hasOwnProperty', 'isPrototypeOf', '__proto__'];
+  const patchRoutes = routes.filter((route) => route.startsWith('PATCH '));
+
+  it.each(patchRoutes)('%s with only inherited names is refused (400) and writes nothing', async (route) => {
+    const [method, template] = route.split(' ');
+    const valid = validBodies(world)[route]?.();
+    expect(valid, `no valid body for ${route} in hostile-fixtures.ts`).toBeDefined();
+    const before = await databaseState();
+    for (const name of INHERITED_NAMES) {
+      const kept = 'version' in valid! ? `"version":${JSON.stringify(valid!.version)},` : '';
+      const body = `{${kept}${JSON.stringify(name)}:"x"}`;
+      const res = await rawRequest(server.url, { method, path: fillPath(template), headers: jsonHeaders(), body });
+      const why = `${route} ${body} → ${res.status} ${res.text.slice(0, 200)}`;
+      expect(res.status, why).toBe(400);
+      expect((res.json as { error: { code: string } }).error.code, why).toBe('invalid_input');
+    }
+    expect(await databaseState(), `${route} wrote on inherited names only`).toEqual(before);
+  });
+
   it('sent at least 1,000 hostile requests', () => {
     const total = [...coverage.values()].reduce((sum, kinds) => sum + Object.values(kinds).reduce((a, b) => a + b, 0), 0);
     expect(total).toBeGreaterThanOrEqual(1000);
