@@ -96,6 +96,9 @@ async function demoLikeWorld() {
   await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(10), heightMm: 55, note: '\r=1+1\nsecond line' });
   await insertCare(testDb(), w.collectionId, { plantId: plant.id, kind: 'move', toAreaId: area.id, note: '-fix me' });
   await insertCare(testDb(), w.collectionId, { areaId: area.id, kind: 'water', note: 'plain words' });
+  // Full-width = + - @ (U+FF1D, U+FF0B, U+FF0D, U+FF20), which some spreadsheet programs also run as formulas.
+  await insertCare(testDb(), w.collectionId, { areaId: area.id, kind: 'feed', product: '＝HYPERLINK("http://evil.example/")', target: '＋1', note: '－2＋3' });
+  await insertCare(testDb(), w.collectionId, { areaId: area.id, kind: 'note', note: '＠SUM(A1:A9)' });
   const photo = await insertPhoto(testDb(), localDiskStore(photoDir), { collectionId: w.collectionId, userId: w.people.grower.id, role: 'grower' }, lead.id);
   return { w, generated, plant, lead, area, photo };
 }
@@ -252,12 +255,15 @@ describe('the zip export', () => {
     const notes = readCsv(zip, 'measurements.csv').rows.filter((m) => m.lead_id === demo.lead.id).map((m) => m.note);
     expect(notes).toEqual(["'@SUM(A1:A9)", "'\r=1+1\nsecond line"]);
     expect(readCsv(zip, 'care_entries.csv').rows.find((c) => c.note.includes('fix me'))!.note).toBe("'-fix me");
+    const fed = readCsv(zip, 'care_entries.csv').rows.find((c) => c.product.includes('HYPERLINK'))!;
+    expect([fed.product, fed.target, fed.note]).toEqual(["'＝HYPERLINK(\"http://evil.example/\")", "'＋1", "'－2＋3"]);
+    expect(readCsv(zip, 'care_entries.csv').rows.find((c) => c.note.includes('SUM'))!.note).toBe("'＠SUM(A1:A9)");
 
     // No cell anywhere starts like a formula once read back.
     for (const name of TABLE_FILES) {
       for (const row of readCsv(zip, name).rows) {
         for (const [column, value] of Object.entries(row)) {
-          if (/^[=+@\t\r]/.test(value)) throw new Error(`${name} ${column}: ${JSON.stringify(value)}`);
+          if (/^[=+@\t\r\uFF1D\uFF0B\uFF0D\uFF20]/.test(value)) throw new Error(`${name} ${column}: ${JSON.stringify(value)}`);
           if (value.startsWith('-')) expect(Number.isFinite(Number(value)), `${name} ${column}: ${value}`).toBe(true);
         }
       }

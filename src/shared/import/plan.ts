@@ -67,11 +67,12 @@ export function mappingProblems(headers: ReadonlyArray<string>, mapping: ColumnM
  */
 /**
  * Sympodia's own export (and other careful exporters, after OWASP's CSV-injection advice) puts a
- * single quote before a text cell that starts with = + - @ tab or carriage return, so a
- * spreadsheet shows it as text. Reading such a cell back drops that quote: "'-A1" is the tag "-A1".
+ * single quote before a text cell that starts with = + - @ tab or carriage return (or their
+ * full-width forms ＝ ＋ － ＠), so a spreadsheet shows it as text. Reading such a cell back drops
+ * that quote: "'-A1" is the tag "-A1".
  */
 export function unescapeFormula(cell: string): string {
-  return cell.length > 1 && cell[0] === "'" && '=+-@\t\r'.includes(cell[1]) ? cell.slice(1) : cell;
+  return cell.length > 1 && cell[0] === "'" && '=+-@\t\r\uFF1D\uFF0B\uFF0D\uFF20'.includes(cell[1]) ? cell.slice(1) : cell;
 }
 
 export class ImportReader {
