@@ -176,7 +176,7 @@ export function createApp(options: AppOptions): Express {
   app.use('/api', api);
   app.use(unsubscribeRoutes(ctx));
   if (options.mailbox) app.use(mailboxRoutes(options.mailbox));
-  if (options.weatherFake) app.use(fakeWeatherRoutes(options.weatherFake, ctx.weather));
+  if (options.weatherFake) app.use(fakeWeatherRoutes(options.weatherFake, ctx.weather, devOrigins));
 
   if (options.webRoot) serveWebBuild(app, options.webRoot, ctx, logger);
 

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { databaseUrl } from '../db/url';
+import { isLoopbackHost } from './middleware/loopback';
 
 const booleanFlag = z
   .enum(['0', '1', 'true', 'false'])
@@ -62,6 +63,25 @@ const envSchema = z.object({
   }
   if (env.NODE_ENV === 'production' && !env.MAIL_FAKE && !env.SMTP_HOST) {
     issues.addIssue({ code: 'custom', path: ['SMTP_HOST'], message: 'Set SMTP_HOST (and PUBLIC_URL) to send mail, or MAIL_FAKE=1 for the local fake mailbox' });
+  }
+  // The fake mailbox shows every reset, invitation and hand-off link: it must not be reachable
+  // from another machine, whatever the request claims. mailFromEnv and weatherFromEnv use the
+  // fakes by default in development, so that counts too.
+  if (!isLoopbackHost(env.HOST)) {
+    if (env.MAIL_FAKE || (!env.SMTP_HOST && env.NODE_ENV !== 'production')) {
+      issues.addIssue({
+        code: 'custom',
+        path: ['HOST'],
+        message: `HOST=${env.HOST} listens beyond this machine while the fake mailbox is on (MAIL_FAKE=1, or development without SMTP_HOST): set SMTP_HOST (with PUBLIC_URL) for real mail, or HOST=127.0.0.1`,
+      });
+    }
+    if (env.WEATHER_FAKE || (!env.WEATHER_URL && env.NODE_ENV !== 'production')) {
+      issues.addIssue({
+        code: 'custom',
+        path: ['HOST'],
+        message: `HOST=${env.HOST} listens beyond this machine while the fake forecast is on (WEATHER_FAKE=1, or development without WEATHER_URL): set WEATHER_URL, leave WEATHER_FAKE unset in production, or HOST=127.0.0.1`,
+      });
+    }
   }
 });
 

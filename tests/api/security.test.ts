@@ -1,3 +1,4 @@
+import { spawn } from 'node:child_process';
 import fs from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
@@ -5,9 +6,12 @@ import { eq } from 'drizzle-orm';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sessions } from '../../db/schema';
+import { createApp } from '../../server/app';
 import { createRateLimits } from '../../server/middleware/rate-limit';
 import { buildCollectionWithMembers, buildSignUp } from '../factories/users';
-import { testDb } from './support/database';
+import { testDatabaseUrl, testDb } from './support/database';
+import { freePorts, ROOT } from './support/processes';
+import { registeredRoutes } from './support/routes';
 import { browser, startTestServer, type TestServer } from './support/server';
 import { writeStandInBuild } from './support/web-build';
 
@@ -227,4 +231,117 @@ describe('security headers', () => {
       }
     }
   });
+});
+
+/**
+ * Starts server/index.ts with `env` and resolves with how it ended: its exit code and output, or
+ * 'listening' (then stopped) when it came up and answered /api/health.
+ */
+async function startOutcome(env: Record<string, string>): Promise<{ outcome: number | 'listening'; output: string }> {
+  const [port] = await freePorts(1);
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    cwd: ROOT,
+    env: { ...process.env, DATABASE_URL: testDatabaseUrl(), LOG_LEVEL: 'warn', SEED_DEMO: '0', PORT: String(port), ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let output = '';
+  child.stdout.on('data', (c: Buffer) => (output += c.toString()));
+  child.stderr.on('data', (c: Buffer) => (output += c.toString()));
+  const exited = new Promise<number>((resolve) => child.on('exit', (code) => resolve(code ?? -1)));
+  const listening = (async () => {
+    for (let i = 0; i < 150; i += 1) {
+      const up = await fetch(`http://127.0.0.1:${port}/api/health`, { signal: AbortSignal.timeout(1000) }).then((r) => r.ok, () => false);
+      if (up) return 'listening' as const;
+      await new Promise((resolve) => setTimeout(resolve, 200));
+    }
+    return 'listening' as const;
+  })();
+  const outcome = await Promise.race([exited, listening]);
+  if (outcome === 'listening') {
+    child.kill('SIGKILL');
+    await exited;
+  }
+  return { outcome, output };
+}
+
+describe('development fakes', () => {
+  let seenFromElsewhere: TestServer;
+
+  beforeAll(async () => {
+    // A server whose every connection is labelled as coming from another machine (203.0.113.7, a
+    // documentation address): the requests still travel over loopback, but the socket's remote
+    // address, which the loopback check reads, is what a LAN or Internet client would have.
+    seenFromElsewhere = await startTestServer();
+    seenFromElsewhere.server.prependListener('connection', (socket) => {
+      Object.defineProperty(socket, 'remoteAddress', { value: '203.0.113.7', configurable: true });
+    });
+  });
+  afterAll(async () => {
+    await seenFromElsewhere.close();
+  });
+
+  // Every development route the app can mount, read from the router (both fakes given).
+  const devRoutes = registeredRoutes(createApp({ db: testDb(), mailbox: {} as never, weatherFake: {} as never })).filter((r) => r.split(' ')[1].startsWith('/dev/'));
+
+  it('finds the development routes', () => {
+    expect(devRoutes).toEqual(expect.arrayContaining(['GET /dev/mailbox', 'GET /dev/mailbox.json', 'GET /dev/weather', 'POST /dev/weather']));
+  });
+
+  it.each(devRoutes)('%s answers 403 to a client on another machine', async (route) => {
+    const [method, at] = route.split(' ');
+    const res = await supertest(seenFromElsewhere.url)[method.toLowerCase() as 'get' | 'post'](at).set('Origin', seenFromElsewhere.url).send(method === 'POST' ? { mode: 'error' } : undefined);
+    expect(res.status).toBe(403);
+    expect(res.body.error.code).toBe('loopback_only');
+    expect(res.text).not.toContain('/reset-password/');
+  });
+
+  it('the mailbox holds no reset link for a client on another machine, while this machine reads it', async () => {
+    const input = buildSignUp();
+    await browser(server.url).post('/api/auth/sign-up', input);
+    await browser(seenFromElsewhere.url).post('/api/auth/password-reset', { email: input.email });
+    const remote = await supertest(seenFromElsewhere.url).get('/dev/mailbox.json');
+    expect(remote.status).toBe(403);
+    expect(JSON.stringify(remote.body)).not.toContain('reset-password');
+    // On this machine the same kind of server shows its mail (the mailbox itself still works).
+    expect((await supertest(server.url).get('/dev/mailbox.json')).status).toBe(200);
+  });
+
+  it.each(['X-Forwarded-For', 'Forwarded', 'X-Real-IP'])('refuses a loopback request that came through a proxy (%s)', async (header) => {
+    const value = header === 'Forwarded' ? 'for=198.51.100.4' : '198.51.100.4';
+    for (const route of devRoutes) {
+      const [method, at] = route.split(' ');
+      const res = await supertest(server.url)[method.toLowerCase() as 'get' | 'post'](at).set('Origin', server.url).set(header, value).send(method === 'POST' ? { mode: 'error' } : undefined);
+      expect(res.status, route).toBe(403);
+    }
+    expect((await supertest(server.url).get('/dev/weather')).body.mode).not.toBe('error');
+  });
+
+  it('the fake forecast switch refuses a cross-origin or origin-less POST and keeps its mode', async () => {
+    const before = (await supertest(server.url).get('/dev/weather')).body.mode;
+    const foreign = await supertest(server.url).post('/dev/weather').set('Origin', 'https://elsewhere.example').send({ mode: 'error' });
+    expect(foreign.status).toBe(403);
+    expect(foreign.body.error.code).toBe('origin_refused');
+    const bare = await supertest(server.url).post('/dev/weather').send({ mode: 'error' });
+    expect(bare.status).toBe(403);
+    expect((await supertest(server.url).get('/dev/weather')).body.mode).toBe(before);
+    // With this server's own Origin it switches.
+    const own = await supertest(server.url).post('/dev/weather').set('Origin', server.url).send({ mode: 'slow' });
+    expect(own.status).toBe(200);
+    expect(own.body.mode).toBe('slow');
+    await supertest(server.url).post('/dev/weather').set('Origin', server.url).send({ mode: 'normal' });
+  });
+
+  it('the server refuses to start with the fake mailbox on a non-loopback address, naming the setting to change', async () => {
+    const { outcome, output } = await startOutcome({ NODE_ENV: 'production', MAIL_FAKE: '1', HOST: '0.0.0.0' });
+    expect(outcome).toBe(1);
+    expect(output).toMatch(/HOST=0\.0\.0\.0/);
+    expect(output).toMatch(/SMTP_HOST/);
+    expect(output).toMatch(/HOST=127\.0\.0\.1/);
+  }, 60_000);
+
+  it('the server refuses to start with the fake forecast on a non-loopback address', async () => {
+    const { outcome, output } = await startOutcome({ NODE_ENV: 'production', SMTP_HOST: '127.0.0.1', WEATHER_FAKE: '1', HOST: '0.0.0.0' });
+    expect(outcome).toBe(1);
+    expect(output).toMatch(/WEATHER_FAKE|WEATHER_URL/);
+  }, 60_000);
 });
