@@ -48,8 +48,12 @@ export interface AppOptions {
   webRoot?: string;
   /** Extra origins allowed to call the API with cookies (the Expo dev server in development). */
   devOrigins?: string[];
-  /** Express's trust-proxy setting, for a server behind a TLS-terminating proxy. */
-  trustProxy?: boolean | number | string;
+  /**
+   * Express's trust-proxy setting for a server behind a TLS-terminating proxy: the number of proxy
+   * hops, or the proxies' addresses (TRUST_PROXY in server/env.ts). Never `true`, which takes the
+   * left-most X-Forwarded-For entry, written by the client.
+   */
+  trustProxy?: number | readonly string[];
   /** Where photos are kept; by default the ignored folder .data/photos beside the code. */
   photoStore?: PhotoStore;
   /** Sends the product's mail; without one, routes that mail answer 500 (a set-up mistake). */
@@ -88,7 +92,7 @@ export function createApp(options: AppOptions): Express {
 
   const app = express();
   app.disable('x-powered-by');
-  if (options.trustProxy !== undefined) app.set('trust proxy', options.trustProxy);
+  if (options.trustProxy !== undefined) app.set('trust proxy', typeof options.trustProxy === 'number' ? options.trustProxy : [...options.trustProxy]);
 
   app.use(
     helmet({

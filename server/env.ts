@@ -1,3 +1,4 @@
+import { isIP } from 'node:net';
 import { z } from 'zod';
 import { databaseUrl } from '../db/url';
 import { isLoopbackHost } from './middleware/loopback';
@@ -6,6 +7,52 @@ const booleanFlag = z
   .enum(['0', '1', 'true', 'false'])
   .optional()
   .transform((value) => value === '1' || value === 'true');
+
+// proxy-addr's names for address ranges, which Express's `trust proxy` also takes.
+const PROXY_RANGE_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);
+
+function isProxyAddress(entry: string): boolean {
+  if (PROXY_RANGE_NAMES.has(entry)) return true;
+  const [address, bits, ...rest] = entry.split('/');
+  const family = isIP(address);
+  if (family === 0 || rest.length > 0) return false;
+  if (bits === undefined) return true;
+  return /^\d{1,3}$/.test(bits) && Number(bits) <= (family === 4 ? 32 : 128);
+}
+
+/**
+ * Who may say where a request came from (X-Forwarded-For, X-Forwarded-Proto): a number of proxy
+ * hops in front of the server (TRUST_PROXY=1: one proxy, so the client is the address that proxy
+ * saw, the right-most entry), or the proxies' own addresses and ranges. Never "every hop": the
+ * left-most entries are whatever the client wrote.
+ */
+const trustProxySchema = z
+  .string()
+  .optional()
+  .transform((value, ctx): number | string[] | undefined => {
+    const text = value?.trim() ?? '';
+    if (text === '' || text === '0' || text === 'false') return undefined;
+    if (/^\d+$/.test(text)) {
+      const hops = Number(text);
+      if (hops <= 10) return hops;
+      ctx.addIssue({ code: 'custom', message: `TRUST_PROXY=${text}: give the number of proxies in front of the server (1 to 10)` });
+      return z.NEVER;
+    }
+    if (text === 'true') {
+      ctx.addIssue({
+        code: 'custom',
+        message: 'TRUST_PROXY=true would believe every X-Forwarded-For entry, which the client writes; give the number of proxies (TRUST_PROXY=1 for one) or their addresses',
+      });
+      return z.NEVER;
+    }
+    const entries = text.split(',').map((e) => e.trim()).filter(Boolean);
+    const wrong = entries.filter((e) => !isProxyAddress(e));
+    if (wrong.length > 0) {
+      ctx.addIssue({ code: 'custom', message: `TRUST_PROXY: ${wrong.join(', ')} is not an address, a range (10.0.0.0/8) or one of loopback, linklocal, uniquelocal` });
+      return z.NEVER;
+    }
+    return entries;
+  });
 
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -16,7 +63,7 @@ const envSchema = z.object({
     .string()
     .optional()
     .transform((value) => (value ? value.split(',').map((o) => o.trim()).filter(Boolean) : [])),
-  TRUST_PROXY: booleanFlag,
+  TRUST_PROXY: trustProxySchema,
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   SEED_DEMO: booleanFlag,
   /** Run the local fake SMTP server and /dev/mailbox (start, dev and e2e); never with SMTP_HOST. */

@@ -45,7 +45,7 @@ describe('sign-up', () => {
   });
 
   it('marks the cookie Secure when the request came over HTTPS through a trusted proxy', async () => {
-    const proxied = await startTestServer({ trustProxy: true });
+    const proxied = await startTestServer({ trustProxy: 1 });
     try {
       const supertest = (await import('supertest')).default;
       const host = new URL(proxied.url).host;

@@ -7,10 +7,11 @@ import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sessions } from '../../db/schema';
 import { createApp } from '../../server/app';
-import { createRateLimits } from '../../server/middleware/rate-limit';
+import { readEnv } from '../../server/env';
+import { createRateLimits, DEFAULT_AUTH_LIMITS } from '../../server/middleware/rate-limit';
 import { buildCollectionWithMembers, buildSignUp } from '../factories/users';
 import { testDatabaseUrl, testDb } from './support/database';
-import { freePorts, ROOT } from './support/processes';
+import { freePorts, ROOT, startServerProcess } from './support/processes';
 import { registeredRoutes } from './support/routes';
 import { browser, startTestServer, type TestServer } from './support/server';
 import { writeStandInBuild } from './support/web-build';
@@ -344,4 +345,49 @@ describe('development fakes', () => {
     expect(outcome).toBe(1);
     expect(output).toMatch(/WEATHER_FAKE|WEATHER_URL/);
   }, 60_000);
+});
+
+describe('client addresses behind a proxy', () => {
+  const base = { DATABASE_URL: 'postgres://x@127.0.0.1/x' } as unknown as NodeJS.ProcessEnv;
+
+  it('TRUST_PROXY takes a hop count or the proxies\' addresses, and refuses "trust everyone"', () => {
+    expect(readEnv({ ...base, TRUST_PROXY: '1' }).TRUST_PROXY).toBe(1);
+    expect(readEnv({ ...base, TRUST_PROXY: '2' }).TRUST_PROXY).toBe(2);
+    expect(readEnv({ ...base, TRUST_PROXY: '0' }).TRUST_PROXY).toBeUndefined();
+    expect(readEnv(base).TRUST_PROXY).toBeUndefined();
+    expect(readEnv({ ...base, TRUST_PROXY: '10.0.0.5, 10.1.0.0/16,loopback,fd00::/8' }).TRUST_PROXY).toEqual(['10.0.0.5', '10.1.0.0/16', 'loopback', 'fd00::/8']);
+    expect(() => readEnv({ ...base, TRUST_PROXY: 'true' })).toThrow(/TRUST_PROXY=true .*TRUST_PROXY=1/);
+    expect(() => readEnv({ ...base, TRUST_PROXY: '10.0.0.0/33' })).toThrow(/TRUST_PROXY/);
+    expect(() => readEnv({ ...base, TRUST_PROXY: 'proxy.example.net' })).toThrow(/TRUST_PROXY/);
+  });
+
+  // Each case has its own client address: the counts live in PostgreSQL and outlast the process.
+  it.each([
+    ['1', '198.51.100.7'],
+    ['loopback', '198.51.100.17'],
+  ])('with TRUST_PROXY=%s a forged left-most X-Forwarded-For changes nothing: the sign-in limit per address holds', async (setting, client) => {
+    // A production server process, as deployed behind one proxy on this machine; the proxy appends
+    // the address it saw (`client`), the client forges whatever it likes before it.
+    const [port] = await freePorts(1);
+    const proc = await startServerProcess({
+      port,
+      env: { NODE_ENV: 'production', DATABASE_URL: testDatabaseUrl(), MAIL_FAKE: '1', SEED_DEMO: '0', TRUST_PROXY: setting, DIGEST_FIRST_CHECK_SECONDS: '86400' },
+    });
+    try {
+      const attempt = (forwardedFor: string, i: number) =>
+        fetch(`${proc.url}/api/auth/sign-in`, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json', origin: proc.url, 'x-forwarded-for': forwardedFor },
+          body: JSON.stringify({ email: `guess-${setting}-${i}@example.test`, password: 'not-the-password-123' }),
+        }).then((res) => res.status);
+      const statuses: number[] = [];
+      for (let i = 0; i < DEFAULT_AUTH_LIMITS.perIp + 5; i += 1) statuses.push(await attempt(`203.0.113.${i % 250}, ${client}`, i));
+      expect(statuses.slice(0, DEFAULT_AUTH_LIMITS.perIp)).toEqual(Array(DEFAULT_AUTH_LIMITS.perIp).fill(401));
+      expect(statuses.slice(DEFAULT_AUTH_LIMITS.perIp)).toEqual(Array(5).fill(429));
+      // The address the proxy saw is what counts: another client behind it is not held back.
+      expect(await attempt(`203.0.113.1, ${client}1`, 999)).toBe(401);
+    } finally {
+      await proc.stop();
+    }
+  }, 90_000);
 });
