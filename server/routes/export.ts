@@ -6,7 +6,7 @@ import { fieldError, fieldIssues, HttpError } from '../errors';
 import { requireRole } from '../middleware/access';
 import { exportFileName, loadExport, writeExportZip } from '../services/export';
 import { restoreCollection } from '../services/restore';
-import { parse } from '../validate';
+import { parse, unstorableText } from '../validate';
 
 const base = '/collections/:collectionId';
 
@@ -85,6 +85,8 @@ export function exportRoutes({ db, photos, logger }: AppContext): Router {
       const details = fieldIssues(parsed.error).slice(0, MAX_ISSUES);
       throw new HttpError(400, 'invalid_input', 'The export file has problems; nothing was restored', details);
     }
+    const unstorable = unstorableText(parsed.data);
+    if (unstorable.length > 0) throw new HttpError(400, 'invalid_input', 'The export file has text that cannot be stored; nothing was restored', unstorable);
     const { collectionId, userId } = res.locals.membership!;
     const result = await restoreCollection(db, collectionId, userId, parsed.data);
     res.status(201).json(restoreResultSchema.parse(result));

@@ -5,6 +5,7 @@ import type { AppContext } from '../context';
 import { HttpError } from '../errors';
 import { requireRole } from '../middleware/access';
 import { checkImport, ImportRefused, mappingFor, readUpload, runImport } from '../services/imports';
+import { contentEncoding, decodedBody } from '../request-body';
 import { parse } from '../validate';
 
 const base = '/collections/:collectionId/imports';
@@ -36,8 +37,10 @@ function assertCsv(req: Request): void {
 async function upload(req: Request) {
   const { options } = parse(optionsQuerySchema, req.query, 'query');
   assertCsv(req);
-  const length = req.get('content-length');
-  return readUpload(req, options, length ? Number(length) : undefined);
+  const encoding = contentEncoding(req);
+  // A compressed body's length says nothing of the file's size: that is counted as it inflates.
+  const length = encoding === 'identity' ? req.get('content-length') : undefined;
+  return readUpload(decodedBody(req), options, length ? Number(length) : undefined, encoding);
 }
 
 export function importRoutes({ db, logger }: AppContext): Router {

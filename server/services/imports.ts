@@ -9,7 +9,7 @@ import type { DateOrder } from '@/shared/import/values';
 import { IMPORT_MAX_BYTES, IMPORT_MAX_ISSUES, type ImportCheck, type ImportOptionsInput, type MappingAnswer } from '@/shared/schemas/imports';
 import type { Database } from '../../db/client';
 import { bloomRecords, collections, importMappings, leads, measurements, plants } from '../../db/schema';
-import { HttpError } from '../errors';
+import { HttpError, isDecompressionError, undecodableBody } from '../errors';
 import { type Executor, latestAllowedDate } from './records-support';
 
 type Member = { collectionId: string; userId: string };
@@ -63,7 +63,12 @@ export async function mappingFor(db: Database, collectionId: string, headers: st
  * Streams a CSV upload through papaparse into an ImportReader, which keeps only the mapped
  * cells of each row. The upload is counted as it arrives and refused (413) past the limit.
  */
-export async function readUpload(stream: Readable, options: ImportOptionsInput, declaredBytes?: number): Promise<{ reader: ImportReader; options: ImportOptions }> {
+export async function readUpload(
+  stream: Readable,
+  options: ImportOptionsInput,
+  declaredBytes?: number,
+  contentEncoding = 'identity',
+): Promise<{ reader: ImportReader; options: ImportOptions }> {
   if (declaredBytes !== undefined && declaredBytes > IMPORT_MAX_BYTES) throw tooLarge();
   stream.setEncoding('utf8');
   let reader: ImportReader | undefined;
@@ -97,11 +102,21 @@ export async function readUpload(stream: Readable, options: ImportOptionsInput, 
       bytes += Buffer.byteLength(chunk);
       if (bytes > IMPORT_MAX_BYTES) fail(tooLarge());
     });
-    stream.on('error', (error) => fail(new HttpError(400, 'upload_interrupted', 'The upload stopped before the end; try again', [{ field: 'file', reason: error.message }])));
+    stream.on('error', (error) =>
+      fail(
+        isDecompressionError(error)
+          ? undecodableBody(contentEncoding)
+          : new HttpError(400, 'upload_interrupted', 'The upload stopped before the end; try again', [{ field: 'file', reason: error.message }]),
+      ),
+    );
     parser.on('data', (cells: string[]) => {
       if (failure) return;
       if (!reader) {
         const headers = cells.map((c, i) => (i === 0 ? c.replace(/^\uFEFF/, '') : c).trim());
+        const nul = headers.findIndex((h) => h.includes('\u0000'));
+        if (nul >= 0) {
+          return fail(new HttpError(400, 'invalid_input', 'Some fields need attention', [{ field: `headers.${nul}`, reason: 'A column name in row 1 contains a NUL character; remove it' }]));
+        }
         const mapping = options.mapping ?? guessMapping(headers);
         const problems = mappingProblems(headers, mapping);
         if (problems.length > 0) {

@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { brotliCompressSync, gzipSync } from 'node:zlib';
 import { and, eq, sql } from 'drizzle-orm';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -243,6 +244,33 @@ describe('refusals', () => {
     expectRefused(json, 415, 'file');
     const big = `tag,lead\n${'A-1,1\n'.repeat(Math.ceil(IMPORT_MAX_BYTES / 6) + 10)}`;
     expectRefused(await check(w, 'grower', big), 413, 'file', /larger than 20 MB/);
+  });
+
+  it('reads a gzip- or brotli-compressed upload as the file inside, refuses a broken one (400) and a compressed bomb past the limit (413)', async () => {
+    const w = await collectionWorld(server);
+    const post = (body: Buffer, encoding: string) =>
+      supertest(server.url)
+        .post(w.at('/imports/check'))
+        .set('Origin', server.url)
+        .set('Cookie', w.people.grower.cookie)
+        .set('Content-Type', 'text/csv')
+        .set('Content-Encoding', encoding)
+        .send(body);
+    const plain = await check(w, 'grower', fixture('fixed.csv'));
+    expect(plain.status).toBe(200);
+    for (const [encoding, body] of [['gzip', gzipSync(fixture('fixed.csv'))], ['br', brotliCompressSync(fixture('fixed.csv'))]] as const) {
+      const res = await post(body, encoding);
+      expect(res.status, JSON.stringify(res.body)).toBe(200);
+      expect(res.body.counts).toEqual(plain.body.counts);
+    }
+    expectRefused(await post(Buffer.from('Plant Tag,Genus\n'), 'gzip'), 400, 'body', /not valid gzip/);
+    expectRefused(await post(Buffer.from('Plant Tag,Genus\n'), 'compress'), 415, 'body');
+    // 25 MB of rows in a few kB: counted as it inflates, not by the compressed length.
+    const line = `A-1,${'1'.repeat(4000)}\n`;
+    const bomb = gzipSync(`tag,lead\n${line.repeat(Math.ceil((25 * 1024 * 1024) / line.length))}`);
+    expect(bomb.length).toBeLessThan(200_000);
+    expectRefused(await post(bomb, 'gzip'), 413, 'file', /larger than 20 MB/);
+    expect(await counts(w.collectionId)).toEqual({ plants: 0, leads: 0, measurements: 0, blooms: 0 });
   });
 });
 

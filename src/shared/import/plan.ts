@@ -301,7 +301,11 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
   const currentSeason = seasonOf(context.latestDate, context.seasonStartMonth);
   const statusOf = (season: number): LeadDraft['status'] => (season < currentSeason ? 'mature' : 'growing');
   const columnOf = (field: ImportField) => options.mapping[field] ?? field;
-  const issue = (row: number, field: ImportField, reason: string) => issues.push({ row, column: columnOf(field), reason });
+  // Cells that cannot be stored (PostgreSQL text takes no NUL) are reported once and read as empty.
+  let unstorable = new Set<ImportField>();
+  const issue = (row: number, field: ImportField, reason: string) => {
+    if (!unstorable.has(field)) issues.push({ row, column: columnOf(field), reason });
+  };
 
   const resolved = resolveDateOrder(reader.evidence, options.dateOrder);
   const headerUnit = options.mapping.height_mm ? splitHeaderUnit(options.mapping.height_mm).unit : null;
@@ -316,7 +320,14 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
   // ── 1. Each row on its own ──
   const values: RowValues[] = [];
   for (const { row, cells } of reader.rows) {
-    const text = (field: ImportField) => cell(cells, field);
+    unstorable = new Set();
+    for (const field of reader.fields) {
+      if (cell(cells, field).includes('\u0000')) {
+        issue(row, field, 'Contains a NUL character, which cannot be stored; remove it from the cell');
+        unstorable.add(field);
+      }
+    }
+    const text = (field: ImportField) => (unstorable.has(field) ? '' : cell(cells, field));
     const dateOf = (field: ImportField): string | null => {
       const t = text(field);
       if (!t) return null;
