@@ -54,8 +54,8 @@ export function importRoutes({ db, logger }: AppContext): Router {
   });
 
   router.post(`${base}/check`, grower, async (req, res) => {
-    const { reader, options } = await upload(req);
-    res.json(importCheckSchema.parse(await checkImport(db, res.locals.membership!.collectionId, reader, options)));
+    const { reader, options, encoding } = await upload(req);
+    res.json(importCheckSchema.parse(await checkImport(db, res.locals.membership!.collectionId, reader, options, encoding)));
   });
 
   /**
@@ -63,10 +63,11 @@ export function importRoutes({ db, logger }: AppContext): Router {
    * stored, then one `done` (or `failed`) line. A file with issues gets an ordinary 400.
    */
   router.post(base, grower, async (req, res) => {
-    const { reader, options } = await upload(req);
+    const { reader, options, encoding } = await upload(req);
     const send = (line: ImportProgressLine) => res.write(`${JSON.stringify(line)}\n`);
     try {
       const counts = await runImport(db, res.locals.membership!, reader, options, {
+        encoding,
         onStart: (total) => {
           // no-transform keeps the compression middleware from holding the lines back.
           res.status(200).set({ 'Content-Type': 'application/x-ndjson; charset=utf-8', 'Cache-Control': 'no-store, no-transform' });
