@@ -121,6 +121,8 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       return;
     }
     if (error instanceof HttpError) {
+      const retryAfter = (error as { retryAfter?: unknown }).retryAfter;
+      if (typeof retryAfter === 'number') res.set('Retry-After', String(retryAfter));
       res.status(error.status).json(body(error.code, error.message, error.details));
       return;
     }
