@@ -8,6 +8,7 @@ import type { Database } from '../db/client';
 import { createAuth } from './auth';
 import type { AppContext } from './context';
 import { errorHandler, HttpError } from './errors';
+import { HeavyJobs } from './heavy-jobs';
 import { originCheck } from './middleware/origin';
 import { createRateLimits, type RateLimits } from './middleware/rate-limit';
 import { engineFingerprint, FingerprintMemo } from './services/engine-data';
@@ -64,6 +65,8 @@ export interface AppOptions {
   weather?: WeatherClient;
   /** The local fake forecast service; when given, /dev/weather switches its test modes. */
   weatherFake?: FakeWeatherServer;
+  /** Imports and restores this process runs at once (HEAVY_JOB_SLOTS); more are answered 503 busy. */
+  heavyJobSlots?: number;
 }
 
 const NO_MAILER: Mailer = {
@@ -87,6 +90,7 @@ export function createApp(options: AppOptions): Express {
     mailer: options.mailer ?? NO_MAILER,
     photos: options.photoStore ?? localDiskStore(path.join(__dirname, '..', '.data', 'photos')),
     weather: options.weather ?? NO_WEATHER,
+    heavyJobs: new HeavyJobs(options.heavyJobSlots),
   };
   const devOrigins = options.devOrigins ?? [];
 

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { importCheckSchema, importOptionsSchema, type ImportProgressLine, mappingAnswerSchema, mappingRequestSchema } from '@/shared/schemas/imports';
 import type { AppContext } from '../context';
 import { HttpError } from '../errors';
+import { heavyJob } from '../heavy-jobs';
 import { requireRole } from '../middleware/access';
 import { checkImport, ImportRefused, mappingFor, readUpload, runImport } from '../services/imports';
 import { contentEncoding, decodedBody } from '../request-body';
@@ -43,17 +44,19 @@ async function upload(req: Request) {
   return readUpload(decodedBody(req), options, length ? Number(length) : undefined, encoding);
 }
 
-export function importRoutes({ db, logger }: AppContext): Router {
+export function importRoutes({ db, logger, heavyJobs }: AppContext): Router {
   const router = Router();
   // Importing writes plants, leads and measurements: growers and owners; viewers get 403.
   const grower = requireRole(db, 'grower');
+  // Reading and planning a file holds its rows and a core: a few at once per process (heavy-jobs.ts).
+  const heavy = heavyJob(heavyJobs);
 
   router.post(`${base}/mapping`, grower, async (req, res) => {
     const { headers } = parse(mappingRequestSchema, req.body);
     res.json(mappingAnswerSchema.parse(await mappingFor(db, res.locals.membership!.collectionId, headers)));
   });
 
-  router.post(`${base}/check`, grower, async (req, res) => {
+  router.post(`${base}/check`, grower, heavy, async (req, res) => {
     const { reader, options, encoding } = await upload(req);
     res.json(importCheckSchema.parse(await checkImport(db, res.locals.membership!.collectionId, reader, options, encoding)));
   });
@@ -62,7 +65,7 @@ export function importRoutes({ db, logger }: AppContext): Router {
    * Answers NDJSON once the file is known to be writable: `writing` lines as batches are
    * stored, then one `done` (or `failed`) line. A file with issues gets an ordinary 400.
    */
-  router.post(base, grower, async (req, res) => {
+  router.post(base, grower, heavy, async (req, res) => {
     const { reader, options, encoding } = await upload(req);
     const send = (line: ImportProgressLine) => res.write(`${JSON.stringify(line)}\n`);
     try {

@@ -411,6 +411,34 @@ describe('restore', () => {
     expect(await rowCounts()).toEqual(before);
   });
 
+  it('reads an uploaded file record by record: any field order, unknown fields skipped, a byte-order mark dropped', async () => {
+    const w = await collectionWorld(server);
+    const doc = smallDocument();
+    // Lists before the header fields, an unknown field with a large array of its own, then a mark in front.
+    const { format, version, exportedAt, collection, ...lists } = doc;
+    const text = JSON.stringify({ ...lists, somethingNewer: Array.from({ length: 5000 }, (_, i) => ({ i, nested: [[i]] })), collection, exportedAt, version, format });
+    const res = await restoreFile(w.people.owner.cookie, w.collectionId, Buffer.from(`\uFEFF${text}`, 'utf8'));
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.restored).toMatchObject({ areas: 1, plants: 2, leads: 2, measurements: 1, careEntries: 1 });
+  });
+
+  it('names what an uploaded file lacks or gets wrong, at most 20 problems, and writes nothing', async () => {
+    const w = await collectionWorld(server);
+    const before = await rowCounts();
+    const { leads: _leads, ...withoutLeads } = smallDocument();
+    const upload = (doc: unknown) => restoreFile(w.people.owner.cookie, w.collectionId, Buffer.from(JSON.stringify(doc)));
+    expectRefused(await upload(withoutLeads), 400, 'leads', /Missing/);
+    expectRefused(await upload({ ...smallDocument(), plants: { p: 1 } }), 400, 'plants', /list of records/);
+    expectRefused(await upload({ ...smallDocument(), version: 7 }), 400, 'version', /version 1/);
+    expectRefused(await upload([smallDocument()]), 400, 'document', /no JSON object/);
+    const many = await upload({ ...smallDocument(), measurements: Array.from({ length: 40 }, (_, i) => ({ id: `m-${i}`, leadId: 'lead-1', date: 'not a date', heightMm: 1 })) });
+    expect(many.status).toBe(400);
+    expect(many.body.error.details).toHaveLength(20);
+    expect(many.body.error.details[0].field).toBe('measurements.0.date');
+    expectRefused(await restoreFile(w.people.owner.cookie, w.collectionId, Buffer.from(JSON.stringify(smallDocument()).slice(0, -20))), 400, 'document', /not valid JSON/);
+    expect(await rowCounts()).toEqual(before);
+  });
+
   it('is for owners only; exports are for every member; other collections are not found', async () => {
     const w = await collectionWorld(server);
     for (const who of ['viewer', 'grower'] as const) {

@@ -1,11 +1,12 @@
 import { spawn } from 'node:child_process';
+import http from 'node:http';
 import fs from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { eq } from 'drizzle-orm';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { sessions, signUpRequests, users } from '../../db/schema';
+import { plants, sessions, signUpRequests, users } from '../../db/schema';
 import { createApp } from '../../server/app';
 import { readEnv } from '../../server/env';
 import { createRateLimits, DEFAULT_AUTH_LIMITS } from '../../server/middleware/rate-limit';
@@ -538,5 +539,95 @@ describe('account enumeration (OWASP ASVS 4.0.3 V2.1.12)', () => {
     // Without the dummy check an unknown address answers in a small fraction of the time (the
     // argon2id check is nearly all of it); with it the two are alike. A loose bound for a busy machine.
     expect(median(unknownTimes) / median(knownTimes)).toBeGreaterThan(0.5);
+  });
+});
+
+describe('heavy jobs (restores and imports) per process', () => {
+  const document = (name: string) =>
+    JSON.stringify({
+      format: 'sympodia-export',
+      version: 1,
+      exportedAt: new Date().toISOString(),
+      collection: { name, seasonStartMonth: 3, units: 'mm', latitude: null, longitude: null },
+      areas: [{ id: 'a', name: 'East bench', indoors: false, position: 0, notes: null }],
+      plants: [{ id: 'p', tag: 'H-1', genus: 'C.', epithet: 'Quiet Meadow', areaId: 'a' }],
+      leads: [],
+      measurements: [],
+      bloomRecords: [],
+      careEntries: [],
+      photos: [],
+    });
+  const boundary = 'sympodia-heavy-boundary';
+  const multipart = (json: string) =>
+    Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="document"; filename="backup.json"\r\nContent-Type: application/json\r\n\r\n${json}\r\n--${boundary}--\r\n`);
+
+  it('past the slots, a restore or an import is answered 503 busy with Retry-After at once; a freed slot takes the next', async () => {
+    const s = await startTestServer({ heavyJobSlots: 1 });
+    try {
+      const world = await buildCollectionWithMembers(testDb(), 'Heavy bench');
+      const owner = browser(s.url, world.people.owner.cookie);
+      const second = (await owner.post('/api/collections', { name: 'Second empty' })).body.id as string;
+      const restorePath = (id: string) => `/api/collections/${id}/restore`;
+
+      // A restore whose upload is still arriving holds the one slot.
+      const body = multipart(document('Slow upload'));
+      const { hostname, port } = new URL(s.url);
+      let answered: { status: number; text: string } | undefined;
+      const slow = http.request({
+        host: hostname,
+        port: Number(port),
+        method: 'POST',
+        path: restorePath(world.collectionId),
+        headers: { Origin: s.url, Cookie: world.people.owner.cookie, 'Content-Type': `multipart/form-data; boundary=${boundary}`, 'Content-Length': String(body.length) },
+      });
+      const slowAnswer = new Promise<void>((resolve, reject) => {
+        slow.on('response', (res) => {
+          let text = '';
+          res.on('data', (c: Buffer) => (text += c.toString()));
+          res.on('end', () => {
+            answered = { status: res.statusCode ?? 0, text };
+            resolve();
+          });
+        });
+        slow.on('error', reject);
+      });
+      slow.write(body.subarray(0, 40));
+      await new Promise((resolve) => setTimeout(resolve, 200));
+      expect(answered).toBeUndefined();
+
+      const busy = await supertest(s.url)
+        .post(restorePath(second))
+        .set('Origin', s.url)
+        .set('Cookie', world.people.owner.cookie)
+        .set('Content-Type', `multipart/form-data; boundary=${boundary}`)
+        .send(multipart(document('Second')));
+      expect(busy.status).toBe(503);
+      expect(busy.body.error).toEqual({ code: 'busy', message: 'The server is busy with other imports and restores; try again in a minute' });
+      expect(busy.headers['retry-after']).toBe('60');
+      const importBusy = await supertest(s.url)
+        .post(`/api/collections/${second}/imports/check`)
+        .set('Origin', s.url)
+        .set('Cookie', world.people.owner.cookie)
+        .set('Content-Type', 'text/csv')
+        .send('Plant Tag,Genus,Grex / Species,Lead\nH-2,C.,Quiet Meadow,L-1\n');
+      expect([importBusy.status, importBusy.body.error.code]).toEqual([503, 'busy']);
+      // Everything else still answers.
+      expect((await supertest(s.url).get('/api/health')).status).toBe(200);
+      expect((await owner.get(`/api/collections/${second}`)).status).toBe(200);
+      expect(await testDb().select().from(plants).where(eq(plants.collectionId, second))).toEqual([]);
+
+      slow.end(body.subarray(40));
+      await slowAnswer;
+      expect(answered!.status, answered!.text).toBe(201);
+      const next = await supertest(s.url)
+        .post(restorePath(second))
+        .set('Origin', s.url)
+        .set('Cookie', world.people.owner.cookie)
+        .set('Content-Type', `multipart/form-data; boundary=${boundary}`)
+        .send(multipart(document('Second')));
+      expect(next.status, JSON.stringify(next.body)).toBe(201);
+    } finally {
+      await s.close();
+    }
   });
 });
