@@ -3,10 +3,11 @@ import { HttpError } from './errors';
 
 /**
  * Imports and restores running at once in one server process. Each holds a file's records in
- * memory (a 60 MB restore about 300 MB) and keeps a core busy for seconds; two on this
- * project's 2-core machine leave the rest of the app answering (`npm run bench:restore`).
+ * memory and keeps a core busy: one 60 MB restore took the server from 190 to 540 MB resident
+ * and 28 s, two at once to 1.1 GB with health checks waiting up to 0.9 s (`npm run bench:restore`
+ * on this project's 2-core machine), so one at a time.
  */
-export const HEAVY_JOB_SLOTS = 2;
+export const HEAVY_JOB_SLOTS = 1;
 
 /** How long a refused job is told to wait, in seconds. */
 export const BUSY_RETRY_AFTER_S = 60;

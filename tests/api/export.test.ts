@@ -22,7 +22,9 @@ let photoDir: string;
 
 beforeAll(async () => {
   photoDir = await fs.mkdtemp(path.join(os.tmpdir(), 'sympodia-export-photos-'));
-  server = await startTestServer({ photoStore: localDiskStore(photoDir) });
+  // Two heavy-job slots: the test of two restores at once is about the database's lock, which is
+  // what keeps two server processes (one slot each) apart.
+  server = await startTestServer({ photoStore: localDiskStore(photoDir), heavyJobSlots: 2 });
 });
 afterAll(async () => {
   await server.close();

@@ -14,7 +14,9 @@ import { startTestServer, type TestServer } from './support/server';
 
 let server: TestServer;
 beforeAll(async () => {
-  server = await startTestServer();
+  // Two heavy-job slots: the test of one file sent twice at once is about the advisory lock, which
+  // is what keeps two server processes (one slot each) apart.
+  server = await startTestServer({ heavyJobSlots: 2 });
 });
 afterAll(async () => {
   await server.close();
