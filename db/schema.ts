@@ -386,6 +386,26 @@ export const passwordResets = pgTable(
 );
 
 /**
+ * A sign-up waiting for its address to be confirmed: the link mailed to it (SHA-256 of the token
+ * kept) creates the account. Nothing else exists for the address until then, so a sign-up answers
+ * the same whether the address is new or taken (OWASP ASVS V2.1.12).
+ */
+export const signUpRequests = pgTable(
+  'sign_up_requests',
+  {
+    tokenHash: text('token_hash').primaryKey(),
+    email: text('email').notNull(),
+    displayName: text('display_name').notNull(),
+    passwordHash: text('password_hash').notNull(),
+    /** Where the app goes once the account exists (an invitation or hand-off page), or null for Today. */
+    nextPath: text('next_path'),
+    expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('sign_up_requests_expires_idx').on(t.expiresAt)],
+);
+
+/**
  * Per member and collection: whether the weekly digest is wanted, and the key its
  * unsubscribe link carries (it can only switch the digest off, so it is kept as is).
  */

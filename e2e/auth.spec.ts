@@ -1,5 +1,6 @@
 import { DEMO_ACCOUNTS, DEMO_COLLECTION_NAME, DEMO_PASSWORD } from '../db/seed/demo-accounts';
 import { expect, keepScreenshot, test } from './support/fixtures';
+import { signUpLinkFor } from './support/session';
 
 const owner = DEMO_ACCOUNTS.find((a) => a.role === 'owner')!;
 const viewer = DEMO_ACCOUNTS.find((a) => a.role === 'viewer')!;
@@ -39,6 +40,12 @@ test('a new grower signs up, lands on Today, signs out and back in', async ({ pa
 
   await page.getByTestId('sign-up-password').fill('terracotta-and-bark-9');
   await page.getByTestId('sign-up-submit').click();
+  // The account is made by the link mailed to the address (the answer is the same for a taken one).
+  await expect(page.getByTestId('sign-up-check-mail')).toContainText(email);
+  await keepScreenshot(page, 'sign-up-check-mail', info.project.name);
+  await page.goto(await signUpLinkFor(page, email));
+  await keepScreenshot(page, 'welcome', info.project.name);
+  await page.getByTestId('welcome-finish').click();
   await expect(page.getByTestId('today-screen')).toBeVisible();
   await expect(page.getByText('Ines Marlowe’s collection').first()).toBeVisible();
   await expect(page.getByText('Nothing needs a look today')).toBeVisible();

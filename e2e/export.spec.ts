@@ -3,7 +3,7 @@ import AdmZip from 'adm-zip';
 import { DEMO_COLLECTION_NAME } from '../db/seed/demo-accounts';
 import { E2E_PORT } from './support/constants';
 import { expect, keepScreenshot, test } from './support/fixtures';
-import { currentCollectionId, signInAs } from './support/session';
+import { currentCollectionId, signInAs, signUpThroughMailbox } from './support/session';
 
 const ORIGIN = `http://127.0.0.1:${E2E_PORT}`;
 
@@ -48,12 +48,12 @@ test('a new grower restores the owner’s JSON export into their empty collectio
 
   // Someone new: sign-up gives them an empty collection of their own.
   await page.context().clearCookies();
-  const signUp = await page.request.post('/api/auth/sign-up', {
-    headers: { Origin: ORIGIN },
-    data: { email: `mover-${info.project.name}-${Date.now()}@example.test`, password: 'rhizome-and-mount-41', displayName: 'Mira Okafor' },
+  const signedUp = await signUpThroughMailbox(page, ORIGIN, {
+    email: `mover-${info.project.name}-${Date.now()}@example.test`,
+    password: 'rhizome-and-mount-41',
+    displayName: 'Mira Okafor',
   });
-  expect(signUp.status()).toBe(201);
-  const targetId = (await signUp.json()).collections[0].id as string;
+  const targetId = signedUp.collections[0].id;
   await page.goto('/collection');
   const card = page.getByTestId('collection-screen').getByTestId('export-card');
   const restore = card.getByTestId('restore-section');

@@ -1,6 +1,6 @@
 import { E2E_PORT } from './support/constants';
 import { expect, keepScreenshot, test } from './support/fixtures';
-import { currentCollectionId, daysAgo, signInAs } from './support/session';
+import { currentCollectionId, daysAgo, signInAs, signUpLinkFor } from './support/session';
 
 const ORIGIN = `http://127.0.0.1:${E2E_PORT}`;
 
@@ -55,6 +55,11 @@ test('a grower gives a division away; the recipient follows the mailed link, sig
   await screen.getByTestId('handoff-password').fill('bulb-and-backbulb-52');
   await keepScreenshot(page, 'handoff-accept', info.project.name);
   await screen.getByTestId('handoff-submit').click();
+  // The account is made by the link mailed to the address, which brings the person back here.
+  await expect(screen.getByTestId('handoff-check-mail')).toContainText(email);
+  await page.goto(await signUpLinkFor(page, email));
+  await page.getByTestId('welcome-finish').click();
+  await expect(page).toHaveURL(new RegExp(`${handoffPath}$`));
 
   // Signed up: the new account's own collection is offered.
   await expect(screen.getByRole('radio', { name: 'Ottilie Marsh’s collection' })).toHaveAttribute('aria-checked', 'true');

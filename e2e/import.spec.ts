@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import AxeBuilder from '@axe-core/playwright';
 import path from 'node:path';
+import iconv from 'iconv-lite';
 import { currentCollectionId, signInAs } from './support/session';
 import { expect, keepScreenshot, test } from './support/fixtures';
 
@@ -85,4 +86,21 @@ test('a grower sees the messy spreadsheet refused row by row, and nothing is wri
   expect(found.total).toBe(0);
   await issues.scrollIntoViewIfNeeded();
   await keepScreenshot(page, 'import-issues', info.project.name);
+});
+
+test('a spreadsheet saved as Windows-1252 is read as such: the screen says so and the preview shows the accents', async ({ page }, info) => {
+  const tag = `LATIN${info.project.name === 'phone' ? 'P' : 'D'}-1`;
+  // As older Excel saves "CSV (Comma delimited)" on a Western system: é is the single byte 0xE9.
+  const csv = `Plant Tag,Genus,Grex / Species,Clone,Lead,Date,Height (mm)\r\n${tag},C.,Señorita Müller,Élan,2024-A,2024-03-25,45\r\n`;
+  await signInAs(page, 'grower');
+  await page.goto('/import');
+  const screen = page.getByTestId('import-screen');
+  const chooser = page.waitForEvent('filechooser');
+  await screen.getByRole('button', { name: 'Choose a CSV file' }).click();
+  await (await chooser).setFiles({ name: 'excel-latin.csv', mimeType: 'text/csv', buffer: iconv.encode(csv, 'windows-1252') });
+  await screen.getByTestId('import-check').click();
+  const report = screen.getByTestId('import-report');
+  await expect(report.getByTestId('import-encoding')).toContainText('Read as Windows-1252');
+  await expect(report.getByTestId('import-preview-row-2')).toContainText(`${tag} C. Señorita Müller 'Élan' · lead 2024-A (2024)`);
+  await expect(report.getByTestId('import-preview-row-2')).not.toContainText('\uFFFD');
 });

@@ -8,6 +8,7 @@ import type { Database } from '../db/client';
 import { createAuth } from './auth';
 import type { AppContext } from './context';
 import { errorHandler, HttpError } from './errors';
+import { HeavyJobs } from './heavy-jobs';
 import { originCheck } from './middleware/origin';
 import { createRateLimits, type RateLimits } from './middleware/rate-limit';
 import { engineFingerprint, FingerprintMemo } from './services/engine-data';
@@ -48,8 +49,12 @@ export interface AppOptions {
   webRoot?: string;
   /** Extra origins allowed to call the API with cookies (the Expo dev server in development). */
   devOrigins?: string[];
-  /** Express's trust-proxy setting, for a server behind a TLS-terminating proxy. */
-  trustProxy?: boolean | number | string;
+  /**
+   * Express's trust-proxy setting for a server behind a TLS-terminating proxy: the number of proxy
+   * hops, or the proxies' addresses (TRUST_PROXY in server/env.ts). Never `true`, which takes the
+   * left-most X-Forwarded-For entry, written by the client.
+   */
+  trustProxy?: number | readonly string[];
   /** Where photos are kept; by default the ignored folder .data/photos beside the code. */
   photoStore?: PhotoStore;
   /** Sends the product's mail; without one, routes that mail answer 500 (a set-up mistake). */
@@ -60,6 +65,8 @@ export interface AppOptions {
   weather?: WeatherClient;
   /** The local fake forecast service; when given, /dev/weather switches its test modes. */
   weatherFake?: FakeWeatherServer;
+  /** Imports and restores this process runs at once (HEAVY_JOB_SLOTS); more are answered 503 busy. */
+  heavyJobSlots?: number;
 }
 
 const NO_MAILER: Mailer = {
@@ -83,12 +90,13 @@ export function createApp(options: AppOptions): Express {
     mailer: options.mailer ?? NO_MAILER,
     photos: options.photoStore ?? localDiskStore(path.join(__dirname, '..', '.data', 'photos')),
     weather: options.weather ?? NO_WEATHER,
+    heavyJobs: new HeavyJobs(options.heavyJobSlots),
   };
   const devOrigins = options.devOrigins ?? [];
 
   const app = express();
   app.disable('x-powered-by');
-  if (options.trustProxy !== undefined) app.set('trust proxy', options.trustProxy);
+  if (options.trustProxy !== undefined) app.set('trust proxy', typeof options.trustProxy === 'number' ? options.trustProxy : [...options.trustProxy]);
 
   app.use(
     helmet({
@@ -176,7 +184,7 @@ export function createApp(options: AppOptions): Express {
   app.use('/api', api);
   app.use(unsubscribeRoutes(ctx));
   if (options.mailbox) app.use(mailboxRoutes(options.mailbox));
-  if (options.weatherFake) app.use(fakeWeatherRoutes(options.weatherFake, ctx.weather));
+  if (options.weatherFake) app.use(fakeWeatherRoutes(options.weatherFake, ctx.weather, devOrigins));
 
   if (options.webRoot) serveWebBuild(app, options.webRoot, ctx, logger);
 

@@ -1,4 +1,5 @@
 import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
+import { randomBytes } from 'node:crypto';
 import { hash, verify } from '@node-rs/argon2';
 import { Lucia, TimeSpan } from 'lucia';
 import type { Database } from '../db/client';
@@ -38,6 +39,13 @@ declare module 'lucia' {
 }
 
 export const hashPassword = (password: string) => hash(password, ARGON2_OPTIONS);
+
+let dummyHash: Promise<string> | undefined;
+/**
+ * The hash of a random password nobody knows, made once per process with the same settings:
+ * sign-in checks an unknown address's password against it, so it takes as long as a known one.
+ */
+export const dummyPasswordHash = () => (dummyHash ??= hashPassword(randomBytes(24).toString('base64url')));
 
 export async function verifyPassword(passwordHash: string, password: string): Promise<boolean> {
   try {

@@ -1,5 +1,6 @@
 import type { Logger } from 'pino';
 import type { Database } from '../db/client';
+import type { HeavyJobs } from './heavy-jobs';
 import type { Auth } from './auth';
 import type { SessionValidator } from './middleware/session';
 import type { Mailer } from './mail/mailer';
@@ -24,4 +25,6 @@ export interface AppContext {
   photos: PhotoStore;
   /** Night minimum forecasts for cold-night checks; failures come back as "unavailable". */
   weather: WeatherClient;
+  /** Imports and restores running in this process: a few at once, the rest told to come back. */
+  heavyJobs: HeavyJobs;
 }

@@ -1,10 +1,58 @@
+import { isIP } from 'node:net';
 import { z } from 'zod';
 import { databaseUrl } from '../db/url';
+import { isLoopbackHost } from './middleware/loopback';
 
 const booleanFlag = z
   .enum(['0', '1', 'true', 'false'])
   .optional()
   .transform((value) => value === '1' || value === 'true');
+
+// proxy-addr's names for address ranges, which Express's `trust proxy` also takes.
+const PROXY_RANGE_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);
+
+function isProxyAddress(entry: string): boolean {
+  if (PROXY_RANGE_NAMES.has(entry)) return true;
+  const [address, bits, ...rest] = entry.split('/');
+  const family = isIP(address);
+  if (family === 0 || rest.length > 0) return false;
+  if (bits === undefined) return true;
+  return /^\d{1,3}$/.test(bits) && Number(bits) <= (family === 4 ? 32 : 128);
+}
+
+/**
+ * Who may say where a request came from (X-Forwarded-For, X-Forwarded-Proto): a number of proxy
+ * hops in front of the server (TRUST_PROXY=1: one proxy, so the client is the address that proxy
+ * saw, the right-most entry), or the proxies' own addresses and ranges. Never "every hop": the
+ * left-most entries are whatever the client wrote.
+ */
+const trustProxySchema = z
+  .string()
+  .optional()
+  .transform((value, ctx): number | string[] | undefined => {
+    const text = value?.trim() ?? '';
+    if (text === '' || text === '0' || text === 'false') return undefined;
+    if (/^\d+$/.test(text)) {
+      const hops = Number(text);
+      if (hops <= 10) return hops;
+      ctx.addIssue({ code: 'custom', message: `TRUST_PROXY=${text}: give the number of proxies in front of the server (1 to 10)` });
+      return z.NEVER;
+    }
+    if (text === 'true') {
+      ctx.addIssue({
+        code: 'custom',
+        message: 'TRUST_PROXY=true would believe every X-Forwarded-For entry, which the client writes; give the number of proxies (TRUST_PROXY=1 for one) or their addresses',
+      });
+      return z.NEVER;
+    }
+    const entries = text.split(',').map((e) => e.trim()).filter(Boolean);
+    const wrong = entries.filter((e) => !isProxyAddress(e));
+    if (wrong.length > 0) {
+      ctx.addIssue({ code: 'custom', message: `TRUST_PROXY: ${wrong.join(', ')} is not an address, a range (10.0.0.0/8) or one of loopback, linklocal, uniquelocal` });
+      return z.NEVER;
+    }
+    return entries;
+  });
 
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -15,7 +63,7 @@ const envSchema = z.object({
     .string()
     .optional()
     .transform((value) => (value ? value.split(',').map((o) => o.trim()).filter(Boolean) : [])),
-  TRUST_PROXY: booleanFlag,
+  TRUST_PROXY: trustProxySchema,
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   SEED_DEMO: booleanFlag,
   /** Run the local fake SMTP server and /dev/mailbox (start, dev and e2e); never with SMTP_HOST. */
@@ -62,6 +110,25 @@ const envSchema = z.object({
   }
   if (env.NODE_ENV === 'production' && !env.MAIL_FAKE && !env.SMTP_HOST) {
     issues.addIssue({ code: 'custom', path: ['SMTP_HOST'], message: 'Set SMTP_HOST (and PUBLIC_URL) to send mail, or MAIL_FAKE=1 for the local fake mailbox' });
+  }
+  // The fake mailbox shows every reset, invitation and hand-off link: it must not be reachable
+  // from another machine, whatever the request claims. mailFromEnv and weatherFromEnv use the
+  // fakes by default in development, so that counts too.
+  if (!isLoopbackHost(env.HOST)) {
+    if (env.MAIL_FAKE || (!env.SMTP_HOST && env.NODE_ENV !== 'production')) {
+      issues.addIssue({
+        code: 'custom',
+        path: ['HOST'],
+        message: `HOST=${env.HOST} listens beyond this machine while the fake mailbox is on (MAIL_FAKE=1, or development without SMTP_HOST): set SMTP_HOST (with PUBLIC_URL) for real mail, or HOST=127.0.0.1`,
+      });
+    }
+    if (env.WEATHER_FAKE || (!env.WEATHER_URL && env.NODE_ENV !== 'production')) {
+      issues.addIssue({
+        code: 'custom',
+        path: ['HOST'],
+        message: `HOST=${env.HOST} listens beyond this machine while the fake forecast is on (WEATHER_FAKE=1, or development without WEATHER_URL): set WEATHER_URL, leave WEATHER_FAKE unset in production, or HOST=127.0.0.1`,
+      });
+    }
   }
 });
 

@@ -29,6 +29,21 @@ export class StaleError extends HttpError {
   }
 }
 
+/**
+ * zlib's codes for a body it could not inflate (Z_DATA_ERROR, Z_BUF_ERROR for one cut short …)
+ * and Brotli's (ERR__ERROR_FORMAT_…), as body-parser passes them on for a broken
+ * `Content-Encoding: gzip | deflate | br` body.
+ */
+export function isDecompressionError(error: unknown): boolean {
+  const code = (error as { code?: unknown } | null)?.code;
+  return typeof code === 'string' && /^(Z_[A-Z_]+|ERR__ERROR_[A-Z0-9_]+|ERR_BROTLI_[A-Z0-9_]+)$/.test(code);
+}
+
+export const undecodableBody = (encoding: string) =>
+  new HttpError(400, 'malformed_body', `The request body says it is compressed (Content-Encoding: ${encoding}) but could not be decompressed`, [
+    { field: 'body', reason: `not valid ${encoding} data` },
+  ]);
+
 /** A 400 for one field, in the same shape as a failed schema check. */
 export const fieldError = (field: string, reason: string) =>
   new HttpError(400, 'invalid_input', 'Some fields need attention', [{ field, reason }]);
@@ -108,6 +123,8 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       return;
     }
     if (error instanceof HttpError) {
+      const retryAfter = (error as { retryAfter?: unknown }).retryAfter;
+      if (typeof retryAfter === 'number') res.set('Retry-After', String(retryAfter));
       res.status(error.status).json(body(error.code, error.message, error.details));
       return;
     }
@@ -131,6 +148,11 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     }
     if (type === 'charset.unsupported' || type === 'encoding.unsupported') {
       res.status(415).json(body('unsupported_encoding', 'The request body uses an unsupported encoding'));
+      return;
+    }
+    if (isDecompressionError(error)) {
+      const refused = undecodableBody((req.get('content-encoding') ?? '').trim().toLowerCase());
+      res.status(400).json(body(refused.code, refused.message, refused.details));
       return;
     }
     if (sqlState(error) === '23503') {

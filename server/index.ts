@@ -35,7 +35,7 @@ async function main() {
     photoStore: photoStoreFromEnv(env),
     webRoot: env.WEB_ROOT ? path.resolve(env.WEB_ROOT) : undefined,
     devOrigins: env.DEV_ORIGINS,
-    trustProxy: env.TRUST_PROXY || undefined,
+    trustProxy: env.TRUST_PROXY,
   });
 
   const server = app.listen(env.PORT, env.HOST, () => {

@@ -21,8 +21,8 @@ export function parse<S extends z.ZodType>(schema: S, input: unknown, where?: 'q
 const NUL = /\u0000/;
 const LONE_SURROGATE = /[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/;
 
-/** Text in parsed input that cannot be stored as sent, as `{ field, reason }` pairs. */
-function unstorableText(value: unknown, where?: 'query' | 'params'): FieldIssue[] {
+/** Text in parsed input that cannot be stored as sent, as `{ field, reason }` pairs (at most 20). */
+export function unstorableText(value: unknown, where?: 'query' | 'params'): FieldIssue[] {
   const issues: FieldIssue[] = [];
   const stack: { value: unknown; path: string[]; depth: number }[] = [{ value, path: [], depth: 0 }];
   while (stack.length > 0 && issues.length < 20) {

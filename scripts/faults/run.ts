@@ -5,7 +5,10 @@
  * and starts on purpose; never the shared dev or test clusters. Loopback only, bounded in time.
  *   (a) PostgreSQL stopped in the middle of a load: every answer during the outage is a fast
  *       503 with a clear JSON message (no hang, no 500, no crash); once PostgreSQL is back the
- *       same process answers 2xx again by itself.
+ *       same process answers 2xx again by itself, and keeps doing so for the first minute after
+ *       the restart, while the server's pooled connections are killed (57P01, as a restart does
+ *       to the connections it finds) under reads in flight: a read on such a connection is
+ *       retried once on a fresh one, so no read answers 503.
  *   (b) The server SIGKILLed while measurements are being written: after a restart every write
  *       acknowledged with 2xx is in the database exactly once, and resending every key (the
  *       acknowledged and the unanswered) stores nothing twice.
@@ -39,7 +42,11 @@ const PORTS = { main: FIRST_PORT, photos: FIRST_PORT + 1 };
 const OUTAGE_ANSWER_BOUND_MS = 6_000;
 /** After PostgreSQL is back, the server must answer 2xx again within this. */
 const RECOVERY_BOUND_MS = 10_000;
-const PHASE = quick ? { warm: 1_500, outage: 3_000, after: 1_500, writes: 1_500 } : { warm: 5_000, outage: 10_000, after: 5_000, writes: 5_000 };
+// `after`: how long the load runs once PostgreSQL is back (the first minute after a restart), with
+// `kills` rounds of pg_terminate_backend over the server's connections spread through it.
+const PHASE = quick
+  ? { warm: 1_500, outage: 3_000, after: 6_000, kills: 4, writes: 1_500 }
+  : { warm: 5_000, outage: 10_000, after: 60_000, kills: 12, writes: 5_000 };
 const WORKERS = quick ? 6 : 20;
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
@@ -181,7 +188,23 @@ async function databaseOutage(target: Target, cookie: string, server: ServerProc
     else await sleep(100);
   }
   const afterFrom = Date.now() + 500;
-  await sleep(PHASE.after + 500);
+  // What a restart leaves in a pool: connections the server ends with 57P01 ("terminating
+  // connection due to administrator command"), here while requests are using them.
+  const kills: number[] = [];
+  const admin = postgres(`${CLUSTER}/postgres`, { max: 1, onnotice: () => {} });
+  try {
+    for (let k = 0; k < PHASE.kills; k += 1) {
+      await sleep(PHASE.after / (PHASE.kills + 1));
+      const killed = await admin`
+        select pg_terminate_backend(pid) as done from pg_stat_activity
+        where datname = ${DATABASE} and pid <> pg_backend_pid() and backend_type = 'client backend'`;
+      kills.push(Date.now());
+      if (k === 0) console.log(`  killed ${killed.length} pooled connection(s) of the server, ${PHASE.kills} times over ${PHASE.after / 1000} s`);
+    }
+    await sleep(PHASE.after / (PHASE.kills + 1) + 500);
+  } finally {
+    await admin.end({ timeout: 5 });
+  }
   running = false;
   await Promise.all(workers);
 
@@ -219,7 +242,24 @@ async function databaseOutage(target: Target, cookie: string, server: ServerProc
   );
   check(server.child.exitCode === null && server.child.signalCode === null, 'the server process stayed up');
   check(recoveredAt !== undefined && recoveredAt - startAt <= RECOVERY_BOUND_MS, `2xx again ${recoveredAt ? `${recoveredAt - startAt} ms` : 'never'} after PostgreSQL was back (bound ${RECOVERY_BOUND_MS} ms)`);
-  check(after.length > 0 && after.every((a) => a.status === 200 || a.status === 201), `after recovery every request answered 2xx (${summary(after)})`);
+  const reads = after.filter((a) => a.route.startsWith('GET'));
+  const writes = after.filter((a) => !a.route.startsWith('GET'));
+  // A read is retried once: only one that two rounds of kills caught (its retry's connection
+  // killed too) may fail, and it must fail as 503 database_unavailable.
+  const killsDuring = (a: Answer) => kills.filter((k) => a.started <= k + 50 && k - 50 <= a.started + a.ms).length;
+  const failedReads = reads.filter((a) => a.status !== 200);
+  for (const a of failedReads) console.log(`  read ${a.route} answered ${a.status} ${a.code ?? ''} after ${a.ms} ms, ${killsDuring(a)} kill round(s) during it`);
+  check(
+    reads.length > 0 && failedReads.every((a) => a.status === 503 && (a.code === 'database_unavailable' || a.code === 'health:down') && killsDuring(a) >= 2),
+    `for ${((Date.now() - startAt) / 1000).toFixed(0)} s after the restart, through ${kills.length} rounds of killed connections, every read answered 200 but for one caught by two rounds (${summary(reads)})`,
+  );
+  // A write whose transaction was on a killed connection is not retried (it may have reached the
+  // database): it answers 503 and the client resends it under its key.
+  const nearKill = (a: Answer) => kills.some((k) => a.started <= k + 200 && a.started + a.ms >= k - 200);
+  check(
+    writes.length > 0 && writes.every((a) => a.status === 201 || (a.status === 503 && a.code === 'database_unavailable' && nearKill(a))),
+    `after recovery every write answered 201, or 503 database_unavailable when a kill landed on it (${summary(writes)})`,
+  );
 }
 
 /** (b) SIGKILL while measurements are being written; restart; every acknowledged key exactly once. */

@@ -1,68 +1,69 @@
 import { eq } from 'drizzle-orm';
 import { Router } from 'express';
-import { generateIdFromEntropySize } from 'lucia';
-import { signInInputSchema, signUpInputSchema } from '@/shared/schemas/auth';
+import { signInInputSchema, signUpConfirmedSchema, signUpInputSchema, signUpRequestedSchema } from '@/shared/schemas/auth';
+import { confirmSignUpInputSchema } from '@/shared/schemas/mail';
 import { users } from '../../db/schema';
-import { hashPassword, verifyPassword } from '../auth';
+import { dummyPasswordHash, hashPassword, verifyPassword } from '../auth';
 import type { AppContext } from '../context';
 import { HttpError } from '../errors';
 import { requireUser } from '../middleware/access';
-import { consume, limitByIp } from '../middleware/rate-limit';
+import { beginSignIn, consume, limitByIp } from '../middleware/rate-limit';
 import { setSessionCookie } from '../middleware/session';
 import { isCommonPassword } from '../passwords';
-import { createCollectionFor } from '../services/collections';
 import { describeMe } from '../services/me';
+import { notifySignInPaused } from '../services/sign-in-notice';
+import { confirmSignUp, requestSignUp } from '../services/sign-up';
 import { parse } from '../validate';
 
-const UNIQUE_VIOLATION = '23505';
-
 export function authRoutes(ctx: AppContext): Router {
-  const { db, auth, rateLimits } = ctx;
+  const { db, auth, rateLimits, mailer, logger } = ctx;
   const router = Router();
 
   const me = (user: { id: string; email: string; displayName: string }) => describeMe(db, user);
 
+  /**
+   * Answers 202 with the same body for an address that is new and one that already has an
+   * account, after the same work (the password is hashed either way); the lookup and the mail
+   * (a link that creates the account, or a note that one exists) follow the answer.
+   */
   router.post('/auth/sign-up', limitByIp(rateLimits.authIp), async (req, res) => {
     const input = parse(signUpInputSchema, req.body);
-    await consume(rateLimits.authAccount, `sign-up:${input.email}`);
+    await consume(rateLimits.mailAccount, `sign-up:${input.email}`);
     if (isCommonPassword(input.password)) {
       throw new HttpError(400, 'invalid_input', 'Some fields need attention', [
         { field: 'password', reason: 'This password is on a list of commonly used passwords; choose another' },
       ]);
     }
-    const [taken] = await db.select({ id: users.id }).from(users).where(eq(users.email, input.email)).limit(1);
-    if (taken) throw new HttpError(409, 'email_taken', 'An account with this e-mail already exists; sign in instead');
-
     const passwordHash = await hashPassword(input.password);
-    const userId = generateIdFromEntropySize(10);
-    try {
-      await db.transaction(async (tx) => {
-        await tx.insert(users).values({ id: userId, email: input.email, displayName: input.displayName, passwordHash });
-        await createCollectionFor(tx, userId, { name: `${input.displayName}’s collection` });
-      });
-    } catch (error) {
-      if ((error as { code?: string }).code === UNIQUE_VIOLATION) {
-        throw new HttpError(409, 'email_taken', 'An account with this e-mail already exists; sign in instead');
-      }
-      throw error;
-    }
-    await rotateSession(req, res, userId);
-    res.status(201).json(await me({ id: userId, email: input.email, displayName: input.displayName }));
+    requestSignUp(db, mailer, { email: input.email, displayName: input.displayName, passwordHash, next: input.next }).catch((error: unknown) =>
+      logger.error({ err: error }, 'sign-up mail failed'),
+    );
+    res.status(202).json(
+      signUpRequestedSchema.parse({
+        message: `Check your mail: a link to finish creating your account is on its way to ${input.email}`,
+        email: input.email,
+      }),
+    );
   });
 
-  router.post('/auth/sign-in', limitByIp(rateLimits.authIp), async (req, res) => {
+  /** The mailed link's page sends its token here: the account is made and signed in. */
+  router.post('/auth/sign-up/confirm', limitByIp(rateLimits.mailIp), async (req, res) => {
+    const { token } = parse(confirmSignUpInputSchema, req.body);
+    const { user, next } = await confirmSignUp(db, token);
+    await rotateSession(req, res, user.id);
+    res.status(201).json(signUpConfirmedSchema.parse({ ...(await me(user)), next }));
+  });
+
+  router.post('/auth/sign-in', async (req, res) => {
     const input = parse(signInInputSchema, req.body);
-    const attempts = await rateLimits.authAccount.get(input.email);
-    if (attempts && attempts.remainingPoints <= 0) {
-      throw new HttpError(429, 'rate_limited', 'Too many attempts for this account; try again later');
-    }
+    const attempt = await beginSignIn(rateLimits, input.email, req.ip ?? 'unknown', () => {
+      notifySignInPaused(db, mailer, input.email).catch((error: unknown) => logger.error({ err: error }, 'sign-in pause notice failed'));
+    });
     const [user] = await db.select().from(users).where(eq(users.email, input.email)).limit(1);
-    const valid = user ? await verifyPassword(user.passwordHash, input.password) : false;
-    if (!user || !valid) {
-      await consume(rateLimits.authAccount, input.email);
-      throw new HttpError(401, 'wrong_credentials', 'That e-mail and password do not match an account');
-    }
-    await rateLimits.authAccount.delete(input.email);
+    // An unknown address costs the same hash check as a wrong password, so timing tells nothing.
+    const valid = await verifyPassword(user?.passwordHash ?? (await dummyPasswordHash()), input.password);
+    if (!user || !valid) throw new HttpError(401, 'wrong_credentials', 'That e-mail and password do not match an account');
+    await attempt.succeeded();
     await rotateSession(req, res, user.id);
     res.json(await me(user));
   });

@@ -3,6 +3,8 @@ import { z } from 'zod';
 import { coldNightsSchema } from '@/shared/schemas/cold-nights';
 import type { AppContext } from '../context';
 import { requireRole } from '../middleware/access';
+import { loopbackClientsOnly } from '../middleware/loopback';
+import { originCheck } from '../middleware/origin';
 import { coldNightsFor } from '../services/cold-nights';
 import { parse } from '../validate';
 import type { WeatherClient } from '../weather/client';
@@ -33,10 +35,12 @@ const fakeSettingsSchema = z.object({
  * The fake forecast service's switch, beside /dev/mailbox: GET shows the mode, POST
  * { mode, nightLows } makes it answer slowly, with garbage or with an error, or with fixed
  * night minimums (and forgets cached forecasts). Mounted only when the fake is in use, never
- * with a real WEATHER_URL.
+ * with a real WEATHER_URL; answers only clients on this machine, and a POST must carry this
+ * server's Origin like every other write.
  */
-export function fakeWeatherRoutes(fake: FakeWeatherServer, weather: WeatherClient): Router {
+export function fakeWeatherRoutes(fake: FakeWeatherServer, weather: WeatherClient, allowedOrigins: readonly string[] = []): Router {
   const router = Router();
+  router.use('/dev/weather', loopbackClientsOnly, originCheck(allowedOrigins));
   router.get('/dev/weather', (_req, res) => {
     res.set('Cache-Control', 'no-store');
     res.json({ mode: fake.mode, modes: FAKE_WEATHER_MODES, url: fake.url });

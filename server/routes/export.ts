@@ -1,20 +1,32 @@
+import { randomUUID } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import fs from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
-import { exportDocumentSchema, exportZipQuerySchema, RESTORE_MAX_BYTES, restoreResultSchema } from '@/shared/schemas/export';
+import { type ExportDocument, exportDocumentSchema, exportZipQuerySchema, RESTORE_MAX_BYTES, restoreResultSchema } from '@/shared/schemas/export';
 import type { AppContext } from '../context';
 import { fieldError, fieldIssues, HttpError } from '../errors';
 import { requireRole } from '../middleware/access';
 import { exportFileName, loadExport, writeExportZip } from '../services/export';
+import { heavyJob } from '../heavy-jobs';
 import { restoreCollection } from '../services/restore';
-import { parse } from '../validate';
+import { MAX_RESTORE_ISSUES, readExportDocument } from '../services/restore-reader';
+import { parse, unstorableText } from '../validate';
 
 const base = '/collections/:collectionId';
 
-/** The most field problems one answer lists; a file with more is broken throughout. */
-const MAX_ISSUES = 20;
+/** Where an uploaded export file waits while it is read; each is removed once its answer has gone. */
+const RESTORE_SPOOL = path.join(os.tmpdir(), 'sympodia-restores');
 
+// The file goes to disk as it arrives and is read from there record by record (restore-reader.ts):
+// sixteen 64 MB uploads held in memory took a server to 4.4 GB.
 const receive = multer({
-  storage: multer.memoryStorage(),
+  storage: multer.diskStorage({
+    destination: (_req, _file, done) => fs.mkdir(RESTORE_SPOOL, { recursive: true }).then(() => done(null, RESTORE_SPOOL), (error: Error) => done(error, RESTORE_SPOOL)),
+    filename: (_req, _file, done) => done(null, `${randomUUID()}.json`),
+  }),
   limits: { fileSize: RESTORE_MAX_BYTES, files: 1, fields: 0, parts: 1 },
 }).single('document');
 
@@ -25,6 +37,9 @@ const receive = multer({
  */
 const receiveDocument: RequestHandler = (req, res, next) => {
   if (!req.is('multipart/form-data')) return next();
+  res.on('close', () => {
+    if (req.file) void fs.rm(req.file.path, { force: true });
+  });
   receive(req, res, (error: unknown) => {
     if (!error) return next();
     if (error instanceof multer.MulterError) {
@@ -38,19 +53,20 @@ const receiveDocument: RequestHandler = (req, res, next) => {
   });
 };
 
-function documentFrom(req: Parameters<RequestHandler>[0]): unknown {
-  if (!req.file) {
-    if (req.is('multipart/form-data')) throw fieldError('document', 'Attach the export file in the field "document"');
-    return req.body;
+/** The document sent: read from the uploaded file record by record, or the small JSON body checked whole. */
+async function documentFrom(req: Parameters<RequestHandler>[0]): Promise<ExportDocument> {
+  if (req.file) return readExportDocument(createReadStream(req.file.path));
+  if (req.is('multipart/form-data')) throw fieldError('document', 'Attach the export file in the field "document"');
+  const parsed = exportDocumentSchema.safeParse(req.body);
+  if (!parsed.success) {
+    throw new HttpError(400, 'invalid_input', 'The export file has problems; nothing was restored', fieldIssues(parsed.error).slice(0, MAX_RESTORE_ISSUES));
   }
-  try {
-    return JSON.parse(req.file.buffer.toString('utf8').replace(/^\uFEFF/, ''));
-  } catch {
-    throw fieldError('document', 'The file is not valid JSON; choose the .json file a Sympodia export gave you');
-  }
+  const unstorable = unstorableText(parsed.data);
+  if (unstorable.length > 0) throw new HttpError(400, 'invalid_input', 'The export file has text that cannot be stored; nothing was restored', unstorable);
+  return parsed.data;
 }
 
-export function exportRoutes({ db, photos, logger }: AppContext): Router {
+export function exportRoutes({ db, photos, logger, heavyJobs }: AppContext): Router {
   const router = Router();
   // Any member may take a copy of what they can already read.
   const viewer = requireRole(db, 'viewer');
@@ -79,14 +95,11 @@ export function exportRoutes({ db, photos, logger }: AppContext): Router {
     res.type('application/json').send(JSON.stringify(document, null, 1));
   });
 
-  router.post(`${base}/restore`, owner, receiveDocument, async (req, res) => {
-    const parsed = exportDocumentSchema.safeParse(documentFrom(req));
-    if (!parsed.success) {
-      const details = fieldIssues(parsed.error).slice(0, MAX_ISSUES);
-      throw new HttpError(400, 'invalid_input', 'The export file has problems; nothing was restored', details);
-    }
+  // In a heavy-job slot from before the upload is read: a busy server says so at once.
+  router.post(`${base}/restore`, owner, heavyJob(heavyJobs), receiveDocument, async (req, res) => {
+    const document = await documentFrom(req);
     const { collectionId, userId } = res.locals.membership!;
-    const result = await restoreCollection(db, collectionId, userId, parsed.data);
+    const result = await restoreCollection(db, collectionId, userId, document);
     res.status(201).json(restoreResultSchema.parse(result));
   });
 

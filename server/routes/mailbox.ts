@@ -2,13 +2,17 @@ import { Router } from 'express';
 import type { FakeSmtpServer } from '../mail/fake-smtp';
 import { linksIn } from '../mail/links';
 import { escapeHtml } from '../mail/mailer';
+import { loopbackClientsOnly } from '../middleware/loopback';
 
 /**
  * The development mailbox: what the fake SMTP server received, newest first, with the links
- * clickable. Mounted only when the fake mail server is in use (MAIL_FAKE=1), never with SMTP_HOST.
+ * clickable. Mounted only when the fake mail server is in use (MAIL_FAKE=1), never with SMTP_HOST,
+ * and answers only clients on this machine: its reset, invitation and hand-off links are credentials.
  */
 export function mailboxRoutes(fake: FakeSmtpServer): Router {
   const router = Router();
+  router.use('/dev/mailbox', loopbackClientsOnly);
+  router.use('/dev/mailbox.json', loopbackClientsOnly);
   router.get('/dev/mailbox.json', (_req, res) => {
     res.set('Cache-Control', 'no-store');
     res.json({ messages: [...fake.messages].reverse() });

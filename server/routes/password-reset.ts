@@ -5,7 +5,7 @@ import { completePasswordResetInputSchema, requestPasswordResetInputSchema } fro
 import { users } from '../../db/schema';
 import type { AppContext } from '../context';
 import { HttpError } from '../errors';
-import { consume, limitByIp } from '../middleware/rate-limit';
+import { clearSignInCounts, consume, limitByIp } from '../middleware/rate-limit';
 import { setSessionCookie } from '../middleware/session';
 import { isCommonPassword } from '../passwords';
 import { collectionsOf } from '../services/collections';
@@ -36,6 +36,8 @@ export function passwordResetRoutes(ctx: AppContext): Router {
     const session = await auth.createSession(userId, {});
     setSessionCookie(auth, req, res, session.id);
     const [user] = await db.select().from(users).where(eq(users.id, userId));
+    // Whoever could read the mail owns the account: a sign-in pause for it ends here.
+    await clearSignInCounts(rateLimits, user.email, req.ip ?? 'unknown');
     res.json(meSchema.parse({ user: { id: user.id, email: user.email, displayName: user.displayName }, collections: await collectionsOf(db, userId) }));
   });
 

@@ -19,7 +19,9 @@ import { photoKey } from './photos';
  * The characters that make a spreadsheet read a cell as a formula when they start it
  * (OWASP, "CSV Injection"): =, +, -, @, tab (0x09) and carriage return (0x0D).
  */
-const FORMULA_START = /^[=+\-@\t\r]/;
+// OWASP's CSV-injection list, and the full-width = + - @ (U+FF1D, U+FF0B, U+FF0D, U+FF20), which
+// some spreadsheet programs also take as the start of a formula.
+const FORMULA_START = /^[=+\-@\t\r\uFF1D\uFF0B\uFF0D\uFF20]/;
 
 /**
  * A text cell made safe to open in a spreadsheet: one that starts like a formula gets a leading

@@ -1,15 +1,17 @@
 import { createHash, randomUUID } from 'node:crypto';
-import { type Readable, Transform } from 'node:stream';
+import type { Readable } from 'node:stream';
 import { and, eq, getTableColumns, sql } from 'drizzle-orm';
 import type { PgTable } from 'drizzle-orm/pg-core';
 import Papa from 'papaparse';
 import { type ColumnMapping, guessMapping, headerSignature, IMPORT_FIELDS, type LengthUnit, normaliseHeader, splitHeaderUnit } from '@/shared/import/fields';
 import { type ExistingRecords, type ImportOptions, type ImportPlan, ImportReader, mappingProblems, planImport, planIsReady } from '@/shared/import/plan';
+import type { FileEncoding } from '@/shared/import/encoding';
 import type { DateOrder } from '@/shared/import/values';
 import { IMPORT_MAX_BYTES, IMPORT_MAX_ISSUES, type ImportCheck, type ImportOptionsInput, type MappingAnswer } from '@/shared/schemas/imports';
 import type { Database } from '../../db/client';
 import { bloomRecords, collections, importMappings, leads, measurements, plants } from '../../db/schema';
-import { HttpError } from '../errors';
+import { HttpError, isDecompressionError, undecodableBody } from '../errors';
+import { SpreadsheetDecoder } from './import-encoding';
 import { type Executor, latestAllowedDate } from './records-support';
 
 type Member = { collectionId: string; userId: string };
@@ -63,45 +65,47 @@ export async function mappingFor(db: Database, collectionId: string, headers: st
  * Streams a CSV upload through papaparse into an ImportReader, which keeps only the mapped
  * cells of each row. The upload is counted as it arrives and refused (413) past the limit.
  */
-export async function readUpload(stream: Readable, options: ImportOptionsInput, declaredBytes?: number): Promise<{ reader: ImportReader; options: ImportOptions }> {
+export async function readUpload(
+  stream: Readable,
+  options: ImportOptionsInput,
+  declaredBytes?: number,
+  contentEncoding = 'identity',
+): Promise<{ reader: ImportReader; options: ImportOptions; encoding: FileEncoding }> {
   if (declaredBytes !== undefined && declaredBytes > IMPORT_MAX_BYTES) throw tooLarge();
-  stream.setEncoding('utf8');
   let reader: ImportReader | undefined;
   let resolvedOptions: ImportOptions | undefined;
   let failure: Error | undefined;
   let bytes = 0;
+  const decoder = new SpreadsheetDecoder();
 
   await new Promise<void>((resolve, reject) => {
     const parser = Papa.parse(Papa.NODE_STREAM_INPUT, { header: false, skipEmptyLines: false }) as unknown as NodeJS.ReadWriteStream;
-    // A byte-order mark (spreadsheet programs and our own export write one) goes before the
-    // parser sees it: left in, it would stand before the first header's opening quote.
-    let atStart = true;
-    const bomless = new Transform({
-      decodeStrings: false,
-      transform(chunk: string, _encoding, done) {
-        if (atStart && chunk.length > 0) {
-          atStart = false;
-          chunk = chunk.replace(/^\uFEFF/, '');
-        }
-        done(null, chunk);
-      },
-    });
     const fail = (error: Error) => {
       if (failure) return;
       failure = error;
-      stream.unpipe(bomless);
+      stream.unpipe(decoder);
       stream.resume();
       reject(error);
     };
-    stream.on('data', (chunk: string) => {
-      bytes += Buffer.byteLength(chunk);
+    stream.on('data', (chunk: Buffer) => {
+      bytes += chunk.length;
       if (bytes > IMPORT_MAX_BYTES) fail(tooLarge());
     });
-    stream.on('error', (error) => fail(new HttpError(400, 'upload_interrupted', 'The upload stopped before the end; try again', [{ field: 'file', reason: error.message }])));
+    stream.on('error', (error) =>
+      fail(
+        isDecompressionError(error)
+          ? undecodableBody(contentEncoding)
+          : new HttpError(400, 'upload_interrupted', 'The upload stopped before the end; try again', [{ field: 'file', reason: error.message }]),
+      ),
+    );
     parser.on('data', (cells: string[]) => {
       if (failure) return;
       if (!reader) {
-        const headers = cells.map((c, i) => (i === 0 ? c.replace(/^\uFEFF/, '') : c).trim());
+        const headers = cells.map((c) => c.trim());
+        const nul = headers.findIndex((h) => h.includes('\u0000'));
+        if (nul >= 0) {
+          return fail(new HttpError(400, 'invalid_input', 'Some fields need attention', [{ field: `headers.${nul}`, reason: 'A column name in row 1 contains a NUL character; remove it' }]));
+        }
         const mapping = options.mapping ?? guessMapping(headers);
         const problems = mappingProblems(headers, mapping);
         if (problems.length > 0) {
@@ -113,6 +117,7 @@ export async function readUpload(stream: Readable, options: ImportOptionsInput, 
       }
       reader.add(cells);
     });
+    decoder.on('error', (error: Error) => fail(error));
     parser.on('error', (error: Error) => fail(error));
     parser.on('finish', () => {
       if (!failure) resolve();
@@ -120,12 +125,12 @@ export async function readUpload(stream: Readable, options: ImportOptionsInput, 
     parser.on('end', () => {
       if (!failure) resolve();
     });
-    stream.pipe(bomless).pipe(parser as unknown as NodeJS.WritableStream);
+    stream.pipe(decoder).pipe(parser as unknown as NodeJS.WritableStream);
   });
 
   if (!reader || !resolvedOptions) throw new HttpError(400, 'empty_file', 'The file is empty: it needs a header row and at least one row of records', [{ field: 'file', reason: 'no header row' }]);
   if (reader.rowCount === 0) throw new HttpError(400, 'empty_file', 'The file has a header row but no records', [{ field: 'file', reason: 'no rows after the header' }]);
-  return { reader, options: resolvedOptions };
+  return { reader, options: resolvedOptions, encoding: decoder.encoding };
 }
 
 /** What the collection holds for the plants the file names: one query per table. */
@@ -190,8 +195,9 @@ async function plan(db: Executor, collectionId: string, reader: ImportReader, op
   return { result, existing };
 }
 
-function checkAnswer(reader: ImportReader, options: ImportOptions, result: ImportPlan): ImportCheck {
+function checkAnswer(reader: ImportReader, options: ImportOptions, result: ImportPlan, encoding: FileEncoding): ImportCheck {
   return {
+    encoding,
     headers: [...reader.headers],
     mapping: options.mapping,
     dateOrder: { ...result.dateOrder, needed: result.needs.dateOrder },
@@ -205,8 +211,8 @@ function checkAnswer(reader: ImportReader, options: ImportOptions, result: Impor
 }
 
 /** The dry run: reads the whole file against the collection and writes nothing. */
-export async function checkImport(db: Database, collectionId: string, reader: ImportReader, options: ImportOptions): Promise<ImportCheck> {
-  return checkAnswer(reader, options, (await plan(db, collectionId, reader, options)).result);
+export async function checkImport(db: Database, collectionId: string, reader: ImportReader, options: ImportOptions, encoding: FileEncoding): Promise<ImportCheck> {
+  return checkAnswer(reader, options, (await plan(db, collectionId, reader, options)).result, encoding);
 }
 
 /** A file that cannot be imported as it stands: 400 with the report's first issues as fields. */
@@ -236,6 +242,8 @@ async function insertJson(tx: Executor, table: PgTable, rows: ReadonlyArray<Reco
 }
 
 export interface RunHooks {
+  /** The encoding the file was read in, for the report of a refused file. */
+  encoding?: FileEncoding;
   /** Called once the plan is known to be writable, before the first write. */
   onStart?: (total: number) => void;
   onProgress?: (done: number, total: number) => void;
@@ -252,7 +260,7 @@ export async function runImport(db: Database, member: Member, reader: ImportRead
   return db.transaction(async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`sympodia-import:${collectionId}`}))`);
     const { result, existing } = await plan(tx, collectionId, reader, options);
-    if (!planIsReady(result)) throw new ImportRefused(checkAnswer(reader, options, result));
+    if (!planIsReady(result)) throw new ImportRefused(checkAnswer(reader, options, result, hooks.encoding ?? 'utf-8'));
 
     const total =
       result.plants.length + result.leads.length + result.measurements.length + result.measurementFills.length + result.blooms.length + result.bloomFills.length;

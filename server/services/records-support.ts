@@ -66,12 +66,13 @@ export function assertNotBeforeFirstSeen(date: string | null | undefined, firstS
 /**
  * The parsed fields the client actually sent. The update schemas are partials of the
  * create schemas, whose defaults (status 'growing', isSpecies false …) would otherwise
- * overwrite stored values the client never meant to change.
+ * overwrite stored values the client never meant to change. Own keys only: `key in parsed`
+ * would find `toString`, `constructor`, `valueOf` … on the prototype and save nothing as a change.
  */
 export function sentFields<T extends Record<string, unknown>>(parsed: T, raw: unknown): Partial<Omit<T, 'version'>> {
   const sent = raw && typeof raw === 'object' ? Object.keys(raw) : [];
   const out: Record<string, unknown> = {};
-  for (const key of sent) if (key !== 'version' && key in parsed) out[key] = parsed[key];
+  for (const key of sent) if (key !== 'version' && Object.hasOwn(parsed, key)) out[key] = parsed[key];
   if (Object.keys(out).length === 0) throw fieldError('body', 'Send at least one field to change');
   return out as Partial<Omit<T, 'version'>>;
 }

@@ -22,7 +22,9 @@ let photoDir: string;
 
 beforeAll(async () => {
   photoDir = await fs.mkdtemp(path.join(os.tmpdir(), 'sympodia-export-photos-'));
-  server = await startTestServer({ photoStore: localDiskStore(photoDir) });
+  // Two heavy-job slots: the test of two restores at once is about the database's lock, which is
+  // what keeps two server processes (one slot each) apart.
+  server = await startTestServer({ photoStore: localDiskStore(photoDir), heavyJobSlots: 2 });
 });
 afterAll(async () => {
   await server.close();
@@ -96,6 +98,9 @@ async function demoLikeWorld() {
   await insertMeasurement(testDb(), lead, { measuredOn: daysAgo(10), heightMm: 55, note: '\r=1+1\nsecond line' });
   await insertCare(testDb(), w.collectionId, { plantId: plant.id, kind: 'move', toAreaId: area.id, note: '-fix me' });
   await insertCare(testDb(), w.collectionId, { areaId: area.id, kind: 'water', note: 'plain words' });
+  // Full-width = + - @ (U+FF1D, U+FF0B, U+FF0D, U+FF20), which some spreadsheet programs also run as formulas.
+  await insertCare(testDb(), w.collectionId, { areaId: area.id, kind: 'feed', product: '＝HYPERLINK("http://evil.example/")', target: '＋1', note: '－2＋3' });
+  await insertCare(testDb(), w.collectionId, { areaId: area.id, kind: 'note', note: '＠SUM(A1:A9)' });
   const photo = await insertPhoto(testDb(), localDiskStore(photoDir), { collectionId: w.collectionId, userId: w.people.grower.id, role: 'grower' }, lead.id);
   return { w, generated, plant, lead, area, photo };
 }
@@ -252,12 +257,15 @@ describe('the zip export', () => {
     const notes = readCsv(zip, 'measurements.csv').rows.filter((m) => m.lead_id === demo.lead.id).map((m) => m.note);
     expect(notes).toEqual(["'@SUM(A1:A9)", "'\r=1+1\nsecond line"]);
     expect(readCsv(zip, 'care_entries.csv').rows.find((c) => c.note.includes('fix me'))!.note).toBe("'-fix me");
+    const fed = readCsv(zip, 'care_entries.csv').rows.find((c) => c.product.includes('HYPERLINK'))!;
+    expect([fed.product, fed.target, fed.note]).toEqual(["'＝HYPERLINK(\"http://evil.example/\")", "'＋1", "'－2＋3"]);
+    expect(readCsv(zip, 'care_entries.csv').rows.find((c) => c.note.includes('SUM'))!.note).toBe("'＠SUM(A1:A9)");
 
     // No cell anywhere starts like a formula once read back.
     for (const name of TABLE_FILES) {
       for (const row of readCsv(zip, name).rows) {
         for (const [column, value] of Object.entries(row)) {
-          if (/^[=+@\t\r]/.test(value)) throw new Error(`${name} ${column}: ${JSON.stringify(value)}`);
+          if (/^[=+@\t\r\uFF1D\uFF0B\uFF0D\uFF20]/.test(value)) throw new Error(`${name} ${column}: ${JSON.stringify(value)}`);
           if (value.startsWith('-')) expect(Number.isFinite(Number(value)), `${name} ${column}: ${value}`).toBe(true);
         }
       }
@@ -402,6 +410,34 @@ describe('restore', () => {
       .send('{"format": "sympodia-export",');
     expectRefused(malformed, 400, 'body');
     expectRefused(await restoreFile(w.people.owner.cookie, w.collectionId, Buffer.from('not json at all')), 400, 'document', /not valid JSON/);
+    expect(await rowCounts()).toEqual(before);
+  });
+
+  it('reads an uploaded file record by record: any field order, unknown fields skipped, a byte-order mark dropped', async () => {
+    const w = await collectionWorld(server);
+    const doc = smallDocument();
+    // Lists before the header fields, an unknown field with a large array of its own, then a mark in front.
+    const { format, version, exportedAt, collection, ...lists } = doc;
+    const text = JSON.stringify({ ...lists, somethingNewer: Array.from({ length: 5000 }, (_, i) => ({ i, nested: [[i]] })), collection, exportedAt, version, format });
+    const res = await restoreFile(w.people.owner.cookie, w.collectionId, Buffer.from(`\uFEFF${text}`, 'utf8'));
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.restored).toMatchObject({ areas: 1, plants: 2, leads: 2, measurements: 1, careEntries: 1 });
+  });
+
+  it('names what an uploaded file lacks or gets wrong, at most 20 problems, and writes nothing', async () => {
+    const w = await collectionWorld(server);
+    const before = await rowCounts();
+    const { leads: _leads, ...withoutLeads } = smallDocument();
+    const upload = (doc: unknown) => restoreFile(w.people.owner.cookie, w.collectionId, Buffer.from(JSON.stringify(doc)));
+    expectRefused(await upload(withoutLeads), 400, 'leads', /Missing/);
+    expectRefused(await upload({ ...smallDocument(), plants: { p: 1 } }), 400, 'plants', /list of records/);
+    expectRefused(await upload({ ...smallDocument(), version: 7 }), 400, 'version', /version 1/);
+    expectRefused(await upload([smallDocument()]), 400, 'document', /no JSON object/);
+    const many = await upload({ ...smallDocument(), measurements: Array.from({ length: 40 }, (_, i) => ({ id: `m-${i}`, leadId: 'lead-1', date: 'not a date', heightMm: 1 })) });
+    expect(many.status).toBe(400);
+    expect(many.body.error.details).toHaveLength(20);
+    expect(many.body.error.details[0].field).toBe('measurements.0.date');
+    expectRefused(await restoreFile(w.people.owner.cookie, w.collectionId, Buffer.from(JSON.stringify(smallDocument()).slice(0, -20))), 400, 'document', /not valid JSON/);
     expect(await rowCounts()).toEqual(before);
   });
 

@@ -19,6 +19,7 @@ import {
   mustRefuse,
   POLLUTING_KEYS,
   RAW_BODIES,
+  UNDECODABLE_CSV,
   rawRequest,
   SQL_FRAGMENTS,
   withPollutingKeys,
@@ -142,13 +143,13 @@ function genericBodies(method: string, template: string): fc.Arbitrary<HostileRe
 }
 
 function rawBodies(method: string, template: string): fc.Arbitrary<HostileRequest> {
-  return fc.constantFrom(...RAW_BODIES).map(({ contentType, body }) => ({
+  return fc.constantFrom(...RAW_BODIES).map(({ contentType, body, encoding }) => ({
     kind: 'raw-body' as const,
     method,
     path: fillPath(template),
-    headers: jsonHeaders(contentType),
+    headers: { ...jsonHeaders(contentType), ...(encoding ? { 'Content-Encoding': encoding } : {}) },
     body,
-    label: `raw ${contentType} ${String(body).slice(0, 40)}`,
+    label: `raw ${contentType}${encoding ? ` (${encoding})` : ''} ${String(body).slice(0, 40)}`,
   }));
 }
 
@@ -329,6 +330,117 @@ describe('hostile input', () => {
     expect(({} as Record<string, unknown>).polluted).toBeUndefined();
     expect(({} as Record<string, unknown>).isAdmin).toBeUndefined();
     expect(await databaseState(), `${route} changed the database (seed ${SEED})`).toEqual(before);
+  });
+
+  const writeRoutes = routes.filter((route) => !/^(GET|HEAD) /.test(route));
+  const undecodable = RAW_BODIES.filter((b) => b.encoding);
+
+  it.each(writeRoutes)('%s refuses a body its Content-Encoding does not fit with a 4xx (400 malformed_body where it is read) and writes nothing', async (route) => {
+    const [method, template] = route.split(' ');
+    const before = await databaseState();
+    const isImport = /\/imports(\/check)?$/.test(template);
+    for (const { contentType, body, encoding } of [...undecodable, ...(isImport ? UNDECODABLE_CSV : [])]) {
+      const res = await rawRequest(server.url, { method, path: fillPath(template), headers: { ...jsonHeaders(contentType), 'Content-Encoding': encoding! }, body });
+      const why = `${route} ${contentType} (${encoding}) → ${res.status} ${res.text.slice(0, 200)}`;
+      expect(res.status, why).toBeGreaterThanOrEqual(400);
+      expect(res.status, why).toBeLessThan(500);
+      const reads = contentType === 'application/json' ? template.startsWith('/api/') : isImport;
+      if (reads) {
+        expect((res.json as { error: { code: string } }).error.code, why).toBe('malformed_body');
+        expect((res.json as { error: { details: { field: string }[] } }).error.details[0].field, why).toBe('body');
+      }
+    }
+    expect(await databaseState(), `${route} wrote on an undecodable body`).toEqual(before);
+  });
+
+  // PostgreSQL text takes no NUL: a file carrying one must be refused by name, not fail on insert.
+  const IMPORT_ROUTES = ['POST /api/collections/:collectionId/imports/check', 'POST /api/collections/:collectionId/imports'];
+  const RESTORE_ROUTE = 'POST /api/collections/:collectionId/restore';
+
+  it('a NUL in a spreadsheet cell is an issue naming its row and column; the import refuses it with 400 and writes nothing', async () => {
+    for (const route of IMPORT_ROUTES) expect(routes).toContain(route);
+    const csv = `tag,genus,epithet,lead,date,height_mm\r\nNUL-1,C.,Quiet\u0000Meadow,L-1,2026-01-10,40\r\nNUL-2,C.,Ok,L-1,2026-01-10,4\u00000\r\n`;
+    const send = (path: string) =>
+      rawRequest(server.url, { method: 'POST', path: fillPath(IMPORT_ROUTES[1].split(' ')[1]) + path, headers: jsonHeaders('text/csv'), body: csv });
+    const before = await databaseState();
+    const checked = await send('/check');
+    expect(checked.status, checked.text).toBe(200);
+    const report = checked.json as { ready: boolean; issues: { row: number; column: string; reason: string }[] };
+    expect(report.ready).toBe(false);
+    expect(report.issues).toEqual(
+      expect.arrayContaining([
+        { row: 2, column: 'epithet', reason: expect.stringMatching(/NUL character/) },
+        { row: 3, column: 'height_mm', reason: expect.stringMatching(/NUL character/) },
+      ]),
+    );
+    const imported = await send('');
+    expect(imported.status, imported.text).toBe(400);
+    const error = (imported.json as { error: { code: string; details: { field: string; reason: string }[] } }).error;
+    expect(error.code).toBe('import_not_ready');
+    expect(error.details.map((d) => d.field)).toEqual(expect.arrayContaining(['rows.2.epithet', 'rows.3.height_mm']));
+    expect(await databaseState()).toEqual(before);
+  });
+
+  it('a NUL in a restore document\'s text is a 400 naming the field, as JSON or as an uploaded file, and nothing is written', async () => {
+    expect(routes).toContain(RESTORE_ROUTE);
+    // An empty collection of the owner's: a restore is refused (409) into one with records.
+    const made = await rawRequest(server.url, { method: 'POST', path: '/api/collections', headers: jsonHeaders(), body: JSON.stringify({ name: 'Empty for restore' }) });
+    expect(made.status).toBe(201);
+    const emptyId = (made.json as { id: string }).id;
+    const at = RESTORE_ROUTE.split(' ')[1].replace(':collectionId', emptyId);
+    const document = {
+      format: 'sympodia-export',
+      version: 1,
+      exportedAt: new Date().toISOString(),
+      collection: { name: 'Bench', seasonStartMonth: 3, units: 'mm', latitude: null, longitude: null },
+      areas: [{ id: 'a', name: 'East\u0000bench', indoors: false, position: 0, notes: null }],
+      plants: [{ id: 'p', tag: 'N-1', genus: 'C.', epithet: 'Quiet Meadow', areaId: 'a', notes: 'from\u0000a friend' }],
+      leads: [],
+      measurements: [],
+      bloomRecords: [],
+      careEntries: [],
+      photos: [],
+    };
+    const before = await databaseState();
+    const boundary = 'sympodia-nul-boundary';
+    const file = multipartBody([{ name: 'document', filename: 'backup.json', contentType: 'application/json', data: JSON.stringify(document) }], boundary);
+    const answers = [
+      await rawRequest(server.url, { method: 'POST', path: at, headers: jsonHeaders(), body: JSON.stringify(document) }),
+      await rawRequest(server.url, { method: 'POST', path: at, headers: jsonHeaders(`multipart/form-data; boundary=${boundary}`), body: file }),
+    ];
+    for (const res of answers) {
+      expect(res.status, res.text).toBe(400);
+      const error = (res.json as { error: { code: string; details: { field: string; reason: string }[] } }).error;
+      expect(error.code).toBe('invalid_input');
+      expect(error.details).toEqual(
+        expect.arrayContaining([
+          { field: 'areas.0.name', reason: expect.stringMatching(/NUL/) },
+          { field: 'plants.0.notes', reason: expect.stringMatching(/NUL/) },
+        ]),
+      );
+    }
+    expect(await databaseState()).toEqual(before);
+  });
+
+  // Names every object inherits: a "which fields were sent" check that asks `key in parsed`
+  // finds them on the prototype and saves (bumping the version) though nothing was sent.
+  const INHERITED_NAMES = ['toString', 'constructor', 'valueOf', 'hasOwnProperty', 'isPrototypeOf', '__proto__'];
+  const patchRoutes = routes.filter((route) => route.startsWith('PATCH '));
+
+  it.each(patchRoutes)('%s with only inherited names is refused (400) and writes nothing', async (route) => {
+    const [method, template] = route.split(' ');
+    const valid = validBodies(world)[route]?.();
+    expect(valid, `no valid body for ${route} in hostile-fixtures.ts`).toBeDefined();
+    const before = await databaseState();
+    for (const name of INHERITED_NAMES) {
+      const kept = 'version' in valid! ? `"version":${JSON.stringify(valid!.version)},` : '';
+      const body = `{${kept}${JSON.stringify(name)}:"x"}`;
+      const res = await rawRequest(server.url, { method, path: fillPath(template), headers: jsonHeaders(), body });
+      const why = `${route} ${body} → ${res.status} ${res.text.slice(0, 200)}`;
+      expect(res.status, why).toBe(400);
+      expect((res.json as { error: { code: string } }).error.code, why).toBe('invalid_input');
+    }
+    expect(await databaseState(), `${route} wrote on inherited names only`).toEqual(before);
   });
 
   it('sent at least 1,000 hostile requests', () => {

@@ -1,6 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { brotliCompressSync, gzipSync } from 'node:zlib';
 import { and, eq, sql } from 'drizzle-orm';
+import iconv from 'iconv-lite';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { bloomRecords, importMappings, leads, measurements, plants } from '../../db/schema';
@@ -12,7 +14,9 @@ import { startTestServer, type TestServer } from './support/server';
 
 let server: TestServer;
 beforeAll(async () => {
-  server = await startTestServer();
+  // Two heavy-job slots: the test of one file sent twice at once is about the advisory lock, which
+  // is what keeps two server processes (one slot each) apart.
+  server = await startTestServer({ heavyJobSlots: 2 });
 });
 afterAll(async () => {
   await server.close();
@@ -243,6 +247,95 @@ describe('refusals', () => {
     expectRefused(json, 415, 'file');
     const big = `tag,lead\n${'A-1,1\n'.repeat(Math.ceil(IMPORT_MAX_BYTES / 6) + 10)}`;
     expectRefused(await check(w, 'grower', big), 413, 'file', /larger than 20 MB/);
+  });
+
+  it('reads a gzip- or brotli-compressed upload as the file inside, refuses a broken one (400) and a compressed bomb past the limit (413)', async () => {
+    const w = await collectionWorld(server);
+    const post = (body: Buffer, encoding: string) =>
+      supertest(server.url)
+        .post(w.at('/imports/check'))
+        .set('Origin', server.url)
+        .set('Cookie', w.people.grower.cookie)
+        .set('Content-Type', 'text/csv')
+        .set('Content-Encoding', encoding)
+        .send(body);
+    const plain = await check(w, 'grower', fixture('fixed.csv'));
+    expect(plain.status).toBe(200);
+    for (const [encoding, body] of [['gzip', gzipSync(fixture('fixed.csv'))], ['br', brotliCompressSync(fixture('fixed.csv'))]] as const) {
+      const res = await post(body, encoding);
+      expect(res.status, JSON.stringify(res.body)).toBe(200);
+      expect(res.body.counts).toEqual(plain.body.counts);
+    }
+    expectRefused(await post(Buffer.from('Plant Tag,Genus\n'), 'gzip'), 400, 'body', /not valid gzip/);
+    expectRefused(await post(Buffer.from('Plant Tag,Genus\n'), 'compress'), 415, 'body');
+    // 25 MB of rows in a few kB: counted as it inflates, not by the compressed length.
+    const line = `A-1,${'1'.repeat(4000)}\n`;
+    const bomb = gzipSync(`tag,lead\n${line.repeat(Math.ceil((25 * 1024 * 1024) / line.length))}`);
+    expect(bomb.length).toBeLessThan(200_000);
+    expectRefused(await post(bomb, 'gzip'), 413, 'file', /larger than 20 MB/);
+    expect(await counts(w.collectionId)).toEqual({ plants: 0, leads: 0, measurements: 0, blooms: 0 });
+  });
+});
+
+describe('file encodings', () => {
+  // The text a grower typed, with the accents spreadsheet programs keep in every encoding here.
+  const EPITHET = 'Señorita Müller';
+  const CLONE = 'Élan d’été';
+  const text = (rowsBefore = 0) =>
+    `Plant Tag,Genus,Grex / Species,Clone,Lead,Date,Height (mm),Note\r\n` +
+    Array.from({ length: rowsBefore }, (_, i) => `PAD-${i},C.,Plain Name,,L-1,2024-03-25,40,${'x'.repeat(60)}\r\n`).join('') +
+    `ENC-1,C.,${EPITHET},${CLONE},L-1,2024-03-25,45,naïve €5\r\n`;
+
+  const sendBytes = (w: World, path: string, body: Buffer, options?: object) => {
+    let req = supertest(server.url).post(w.at(`/imports${path}`)).set('Origin', server.url).set('Cookie', w.people.grower.cookie).set('Content-Type', 'text/csv');
+    if (options) req = req.query({ options: JSON.stringify(options) });
+    return req.send(body);
+  };
+  const utf16be = (t: string) => Buffer.from(t, 'utf16le').swap16();
+
+  it.each([
+    ['utf-8', 'no mark', () => Buffer.from(text(), 'utf8')],
+    ['utf-8', 'a byte-order mark', () => Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(text(), 'utf8')])],
+    ['windows-1252', 'no mark', () => iconv.encode(text(), 'windows-1252')],
+    ['utf-16le', 'a byte-order mark', () => Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text(), 'utf16le')])],
+    ['utf-16be', 'a byte-order mark', () => Buffer.concat([Buffer.from([0xfe, 0xff]), utf16be(text())])],
+    // 200 kB of plain ASCII rows first: the first byte that is not UTF-8 arrives chunks later.
+    ['windows-1252', '3,000 ASCII rows first', () => iconv.encode(text(3000), 'windows-1252')],
+  ])('reads a file saved as %s (%s), says so, previews and stores the real accents', async (encoding, how, bytes) => {
+    const w = await collectionWorld(server);
+    const body = bytes();
+    const dry = await sendBytes(w, '/check', body);
+    expect(dry.status, JSON.stringify(dry.body)).toBe(200);
+    expect(dry.body.encoding).toBe(encoding);
+    expect(dry.body.headers[0]).toBe('Plant Tag');
+    expect(dry.body.ready).toBe(true);
+    // The preview shows the first rows only: the padded file's accented row is further on.
+    const previewed = (dry.body.preview as { tag: string; name: string }[]).find((p) => p.tag === (how.includes('ASCII rows') ? 'PAD-0' : 'ENC-1'));
+    expect(previewed?.name).toBe(how.includes('ASCII rows') ? 'C. Plain Name' : `C. ${EPITHET} '${CLONE}'`);
+    const done = await sendBytes(w, '', body);
+    expect(done.status, done.text).toBe(200);
+    const [plant] = await testDb().select({ epithet: plants.epithet, clonalName: plants.clonalName }).from(plants).where(and(eq(plants.collectionId, w.collectionId), eq(plants.tag, 'ENC-1')));
+    expect(plant).toEqual({ epithet: EPITHET, clonalName: CLONE });
+  });
+
+  it('keeps a UTF-8 character whole when the upload splits it between chunks', async () => {
+    const w = await collectionWorld(server);
+    // 3-byte characters throughout 300 kB, so some fall across the socket's chunk boundaries.
+    const long = 'ꝏ'.repeat(100);
+    const csv = `Plant Tag,Genus,Grex / Species,Lead,Date,Height (mm)\r\n${Array.from({ length: 1000 }, (_, i) => `U-${i},C.,${long},L-1,2024-03-25,40\r\n`).join('')}`;
+    const dry = await sendBytes(w, '/check', Buffer.from(csv, 'utf8'));
+    expect(dry.status, JSON.stringify(dry.body).slice(0, 300)).toBe(200);
+    expect(dry.body.encoding).toBe('utf-8');
+    expect(dry.body.issueCount).toBe(0);
+    expect(dry.body.preview.every((p: { name: string }) => p.name === `C. ${long}`)).toBe(true);
+  });
+
+  it('refuses a file that mixes UTF-8 with another encoding (400), writing nothing', async () => {
+    const w = await collectionWorld(server);
+    const mixed = Buffer.concat([Buffer.from(text(), 'utf8'), iconv.encode('ENC-2,C.,Café,,L-1,2024-03-25,45,x\r\n', 'windows-1252')]);
+    expectRefused(await sendBytes(w, '/check', mixed), 400, 'file', /mixes UTF-8 with another encoding/);
+    expectRefused(await sendBytes(w, '', mixed), 400, 'file', /mixes UTF-8/);
+    expect(await counts(w.collectionId)).toEqual({ plants: 0, leads: 0, measurements: 0, blooms: 0 });
   });
 });
 

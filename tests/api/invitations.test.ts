@@ -5,7 +5,7 @@ import { hashToken } from '../../server/mail/tokens';
 import { insertInvitation, mailTo, tokenFrom } from '../factories/mail';
 import { buildCollectionWithMembers, buildSignUp, insertUser, sessionCookieFor } from '../factories/users';
 import { rowCounts, testDb } from './support/database';
-import { browser, startTestServer, type TestServer } from './support/server';
+import { browser, signUpThroughMail, startTestServer, type TestServer } from './support/server';
 
 let server: TestServer;
 let fx: Awaited<ReturnType<typeof buildCollectionWithMembers>>;
@@ -54,7 +54,7 @@ describe('invitations', () => {
     expect(preview.body).toMatchObject({ collectionName: 'Cattleya bench', role: 'grower', email });
 
     const invitee = browser(server.url);
-    expect((await invitee.post('/api/auth/sign-up', buildSignUp({ email }))).status).toBe(201);
+    await signUpThroughMail(server, buildSignUp({ email }), invitee);
     const accepted = await invitee.post(`/api/invitations/${token}/accept`);
     expect(accepted.status, JSON.stringify(accepted.body)).toBe(200);
     expect(accepted.body).toEqual({ collectionId: fx.collectionId, role: 'grower' });

@@ -54,4 +54,18 @@ describe('dev mailbox', () => {
       MAIL_FAKE: false,
     });
   });
+
+  it('refuses either fake on an address other machines can reach, naming the setting to change', () => {
+    const base = { DATABASE_URL: 'postgres://x@127.0.0.1/x' } as unknown as NodeJS.ProcessEnv;
+    const real = { SMTP_HOST: 'smtp.example.org', WEATHER_URL: 'https://api.open-meteo.com' };
+    expect(() => readEnv({ ...base, NODE_ENV: 'production', MAIL_FAKE: '1', HOST: '0.0.0.0' })).toThrow(/HOST=0\.0\.0\.0 .*fake mailbox.*SMTP_HOST.*HOST=127\.0\.0\.1/);
+    expect(() => readEnv({ ...base, HOST: '192.0.2.10', WEATHER_URL: real.WEATHER_URL })).toThrow(/fake mailbox/);
+    expect(() => readEnv({ ...base, HOST: '::', SMTP_HOST: real.SMTP_HOST })).toThrow(/fake forecast/);
+    expect(() => readEnv({ ...base, NODE_ENV: 'production', SMTP_HOST: real.SMTP_HOST, WEATHER_FAKE: '1', HOST: '0.0.0.0' })).toThrow(/WEATHER_FAKE/);
+    expect(readEnv({ ...base, NODE_ENV: 'production', ...real, HOST: '0.0.0.0' }).HOST).toBe('0.0.0.0');
+    expect(readEnv({ ...base, NODE_ENV: 'production', SMTP_HOST: real.SMTP_HOST, HOST: '0.0.0.0' }).HOST).toBe('0.0.0.0');
+    for (const host of ['127.0.0.1', '127.0.0.2', 'localhost', '::1', '[::1]']) {
+      expect(readEnv({ ...base, NODE_ENV: 'production', MAIL_FAKE: '1', WEATHER_FAKE: '1', HOST: host }).HOST).toBe(host);
+    }
+  });
 });

@@ -49,7 +49,9 @@ interface Entry {
 const MATRIX: Record<string, Entry> = {
   'GET /api/health': { expected: PUBLIC(200) },
   'GET /api/session': { expected: PUBLIC(200) },
-  'POST /api/auth/sign-up': { expected: PUBLIC(201), body: () => buildSignUp() },
+  'POST /api/auth/sign-up': { expected: PUBLIC(202), body: () => buildSignUp() },
+  // An unknown token: the link's own checks are in auth.test.ts.
+  'POST /api/auth/sign-up/confirm': { expected: PUBLIC(400), body: () => ({ token: 'C'.repeat(43) }) },
   'POST /api/auth/sign-in': { expected: PUBLIC(401), body: () => ({ email: 'nobody@example.test', password: 'not-a-real-one' }) },
   'POST /api/auth/sign-out': { expected: SIGNED_IN(204) },
   'POST /api/auth/sign-out-everywhere': { expected: SIGNED_IN(204) },

@@ -107,7 +107,8 @@ describe('two server processes on one database, one object store and one SMTP se
   });
 
   it('sign-in attempts are counted once across both processes', async () => {
-    // DEFAULT_AUTH_LIMITS: 10 wrong passwords per account per 15 minutes. Five on each process use it up.
+    // DEFAULT_AUTH_LIMITS: 10 wrong passwords per account and address per 15 minutes (both processes see
+    // this test's 127.0.0.1). Five on each process use it up.
     const email = DEMO_ACCOUNTS.find((x) => x.role === 'viewer')!.email;
     const attempt = (server: ServerProcess) =>
       fetch(`${server.url}/api/auth/sign-in`, {

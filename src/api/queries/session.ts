@@ -1,5 +1,5 @@
 import { QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { meSchema, sessionSchema, type Me, type SignInInput, type SignUpInput } from '@/shared/schemas/auth';
+import { meSchema, sessionSchema, signUpConfirmedSchema, signUpRequestedSchema, type Me, type SignInInput, type SignUpInput } from '@/shared/schemas/auth';
 import { request } from '../client';
 import { forgetPageAnswers, meFromPage } from '../page-data';
 
@@ -32,11 +32,19 @@ export function useSignInMutation() {
   });
 }
 
+/** Asks for an account: the server mails the address a link that creates it (the answer is the same for a taken address). */
 export function useSignUpMutation() {
+  return useMutation({
+    mutationFn: (input: SignUpInput) => request('/auth/sign-up', { method: 'POST', body: input, schema: signUpRequestedSchema }),
+  });
+}
+
+/** Follows a mailed sign-up link: the account is made and this browser signed in to it. */
+export function useConfirmSignUpMutation() {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (input: SignUpInput) => request('/auth/sign-up', { method: 'POST', body: input, schema: meSchema }),
-    onSuccess: (me) => switchPerson(client, me),
+    mutationFn: (token: string) => request('/auth/sign-up/confirm', { method: 'POST', body: { token }, schema: signUpConfirmedSchema }),
+    onSuccess: ({ next: _next, ...me }) => switchPerson(client, me),
   });
 }
 

@@ -25,6 +25,8 @@ export interface AccountForLinkProps {
   submitLabel: { signUp: string; signIn: string };
   /** Under the sign-in form: what to do after resetting the password. */
   forgotPasswordText: string;
+  /** This page's path: the mailed sign-up link brings the new account back here. */
+  returnTo: string;
   /**
    * Called once the person is signed in. The screen then shows its signed-in state (this
    * form goes away), so whatever the link offers is accepted, and refused, there.
@@ -37,7 +39,7 @@ export interface AccountForLinkProps {
  * account part of accepting it, with the fields checked before sending and the server's
  * reasons shown beside them.
  */
-export function AccountForLink({ email: sentTo, testIDPrefix, submitLabel, forgotPasswordText, onSignedIn }: AccountForLinkProps) {
+export function AccountForLink({ email: sentTo, testIDPrefix, submitLabel, forgotPasswordText, returnTo, onSignedIn }: AccountForLinkProps) {
   const signUp = useSignUpMutation();
   const signIn = useSignInMutation();
   const [mode, setMode] = useState<Mode>('sign-up');
@@ -47,10 +49,11 @@ export function AccountForLink({ email: sentTo, testIDPrefix, submitLabel, forgo
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [formError, setFormError] = useState<string>();
   const [busy, setBusy] = useState(false);
+  const [mailedTo, setMailedTo] = useState<string>();
 
   const submit = async () => {
     setFormError(undefined);
-    const parsed = mode === 'sign-up' ? signUpInputSchema.safeParse({ email, password, displayName }) : signInInputSchema.safeParse({ email, password });
+    const parsed = mode === 'sign-up' ? signUpInputSchema.safeParse({ email, password, displayName, next: returnTo }) : signInInputSchema.safeParse({ email, password });
     if (!parsed.success) {
       setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
       return;
@@ -58,8 +61,12 @@ export function AccountForLink({ email: sentTo, testIDPrefix, submitLabel, forgo
     setErrors({});
     setBusy(true);
     try {
-      if (mode === 'sign-up') await signUp.mutateAsync(parsed.data as never);
-      else await signIn.mutateAsync(parsed.data);
+      if (mode === 'sign-up') {
+        // The account is made by the mailed link, which brings the person back to this page.
+        setMailedTo((await signUp.mutateAsync(parsed.data as never)).email);
+        return;
+      }
+      await signIn.mutateAsync(parsed.data);
       onSignedIn?.();
     } catch (error) {
       if (error instanceof ApiError && error.details.length > 0) setErrors(Object.fromEntries(error.details.map((d) => [d.field, d.reason])));
@@ -68,6 +75,18 @@ export function AccountForLink({ email: sentTo, testIDPrefix, submitLabel, forgo
       setBusy(false);
     }
   };
+
+  if (mailedTo) {
+    return (
+      <View style={styles.body} testID={`${testIDPrefix}-check-mail`}>
+        <Text>
+          Check your mail: a link to finish creating your account is on its way to <Text variant="bodyStrong">{mailedTo}</Text>. It brings you back
+          here, signed in, to finish.
+        </Text>
+        <Text color="textMuted">If this address already has an account, the mail says so instead; sign in here with it.</Text>
+      </View>
+    );
+  }
 
   return (
     <View style={styles.body}>

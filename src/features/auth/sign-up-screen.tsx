@@ -1,5 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { Link, useRouter } from 'expo-router';
+import { Link } from 'expo-router';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
@@ -17,9 +17,9 @@ import { applyServerErrors } from './use-server-errors';
 type Values = z.input<typeof signUpInputSchema>;
 
 export function SignUpScreen() {
-  const router = useRouter();
   const signUp = useSignUpMutation();
   const [formError, setFormError] = useState<string>();
+  const [sentTo, setSentTo] = useState<string>();
   const { control, handleSubmit, setError, formState } = useForm<Values, unknown, z.output<typeof signUpInputSchema>>({
     resolver: zodResolver(signUpInputSchema),
     defaultValues: { displayName: '', email: '', password: '' },
@@ -28,12 +28,30 @@ export function SignUpScreen() {
   const submit = handleSubmit(async (values) => {
     setFormError(undefined);
     try {
-      await signUp.mutateAsync(values);
-      router.replace('/');
+      setSentTo((await signUp.mutateAsync(values)).email);
     } catch (error) {
       setFormError(applyServerErrors(error, ['displayName', 'email', 'password'], setError));
     }
   });
+
+  if (sentTo) {
+    return (
+      <AuthFrame title="Check your mail">
+        <View testID="sign-up-check-mail" style={styles.sent}>
+          <Text>
+            A link to finish creating your account is on its way to <Text variant="bodyStrong">{sentTo}</Text>. Open it within 24 hours, on this
+            device or another; the account is made when you do.
+          </Text>
+          <Text color="textMuted">If this address already has an account, the mail says so instead, with a way to sign in.</Text>
+        </View>
+        <Link href="/sign-in" testID="to-sign-in">
+          <Text color="accent" variant="bodyStrong">
+            Back to sign in
+          </Text>
+        </Link>
+      </AuthFrame>
+    );
+  }
 
   return (
     <AuthFrame title="Create an account">
@@ -82,5 +100,6 @@ export function SignUpScreen() {
 }
 
 const styles = StyleSheet.create({
+  sent: { gap: spacing.md },
   footer: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm, alignItems: 'center' },
 });

@@ -83,6 +83,7 @@ function HandoffBody({ token, handoff, me }: { token: string; handoff: HandoffPr
             testIDPrefix="handoff"
             submitLabel={{ signUp: 'Create account', signIn: 'Sign in' }}
             forgotPasswordText="Forgot password? Reset it, then open the hand-off link again."
+            returnTo={`/handoff/${token}`}
           />
         </View>
       ) : isRecipient ? (

@@ -10,6 +10,7 @@ import { Screen } from '@/components/screen';
 import { Segmented } from '@/components/segmented';
 import { Text } from '@/components/text';
 import { useCurrentCollection } from '@/features/collections/current-collection';
+import { ENCODING_LABELS, sniffEncoding } from '@/shared/import/encoding';
 import { type ColumnMapping, FIELD_LABELS, IMPORT_FIELDS, type ImportField, type LengthUnit, REQUIRED_FIELDS } from '@/shared/import/fields';
 import type { DateOrder } from '@/shared/import/values';
 import type { ImportCheck, ImportProgressLine } from '@/shared/schemas/imports';
@@ -18,6 +19,8 @@ import { colors, radius, spacing } from '@/theme';
 
 type Counts = Extract<ImportProgressLine, { phase: 'done' }>['counts'];
 const NOT_IN_FILE = '';
+/** How much of the file's start decides the encoding its header row is read in. */
+const SNIFF_BYTES = 64 * 1024;
 
 /** The way back to Collection settings, where the import is reached from. */
 function BackToCollection() {
@@ -84,9 +87,16 @@ function ImportFlow({ collectionId }: { collectionId: string }) {
       return setFileError(`${picked.name} is larger than 20 MB; split it into parts and import each.`);
     }
     setFile(picked);
-    // Only the header row is read here; the server reads the whole file.
+    readHeaderRow(picked).catch(() => setFileError('This file could not be read.'));
+  };
+
+  // Only the header row is read here, in the encoding the file's first bytes show (the server
+  // decides again over the whole file and says which it read).
+  const readHeaderRow = async (picked: File) => {
+    const encoding = sniffEncoding(new Uint8Array(await picked.slice(0, SNIFF_BYTES).arrayBuffer()));
     Papa.parse<string[]>(picked, {
       preview: 1,
+      encoding,
       complete: (result) => {
         const row = (result.data[0] ?? []).map((h, i) => (i === 0 ? h.replace(/^\uFEFF/, '') : h).trim());
         if (row.length === 0 || row.every((h) => !h)) return setFileError('This file has no header row. The first row must name the columns.');
@@ -225,6 +235,10 @@ function ImportFlow({ collectionId }: { collectionId: string }) {
 
       {check && !done ? (
         <Card title="3. Check what will be saved" testID="import-report">
+          <Text color="textMuted" testID="import-encoding">
+            Read as {ENCODING_LABELS[check.encoding]}
+            {check.encoding === 'utf-8' ? '.' : '. If accents look wrong below, save the file again as “CSV UTF-8” and choose it again.'}
+          </Text>
           {check.dateOrder.needed || check.dateOrder.used ? (
             <View style={styles.choice}>
               <Text variant="label">How are the dates written?</Text>

@@ -103,6 +103,7 @@ function InviteBody({ token, invitation, signedInAs }: { token: string; invitati
           testIDPrefix="invite"
           submitLabel={{ signUp: 'Create account and join', signIn: 'Sign in and join' }}
           forgotPasswordText="Forgot password? Reset it, then open the invitation link again."
+          returnTo={`/invite/${token}`}
           onSignedIn={() => setJoinOnSignIn(true)}
         />
       )}

@@ -67,11 +67,12 @@ export function mappingProblems(headers: ReadonlyArray<string>, mapping: ColumnM
  */
 /**
  * Sympodia's own export (and other careful exporters, after OWASP's CSV-injection advice) puts a
- * single quote before a text cell that starts with = + - @ tab or carriage return, so a
- * spreadsheet shows it as text. Reading such a cell back drops that quote: "'-A1" is the tag "-A1".
+ * single quote before a text cell that starts with = + - @ tab or carriage return (or their
+ * full-width forms ＝ ＋ － ＠), so a spreadsheet shows it as text. Reading such a cell back drops
+ * that quote: "'-A1" is the tag "-A1".
  */
 export function unescapeFormula(cell: string): string {
-  return cell.length > 1 && cell[0] === "'" && '=+-@\t\r'.includes(cell[1]) ? cell.slice(1) : cell;
+  return cell.length > 1 && cell[0] === "'" && '=+-@\t\r\uFF1D\uFF0B\uFF0D\uFF20'.includes(cell[1]) ? cell.slice(1) : cell;
 }
 
 export class ImportReader {
@@ -305,7 +306,11 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
   const currentSeason = seasonOf(context.today, context.seasonStartMonth);
   const statusOf = (season: number): LeadDraft['status'] => (season < currentSeason ? 'mature' : 'growing');
   const columnOf = (field: ImportField) => options.mapping[field] ?? field;
-  const issue = (row: number, field: ImportField, reason: string) => issues.push({ row, column: columnOf(field), reason });
+  // Cells that cannot be stored (PostgreSQL text takes no NUL) are reported once and read as empty.
+  let unstorable = new Set<ImportField>();
+  const issue = (row: number, field: ImportField, reason: string) => {
+    if (!unstorable.has(field)) issues.push({ row, column: columnOf(field), reason });
+  };
 
   const resolved = resolveDateOrder(reader.evidence, options.dateOrder);
   const headerUnit = options.mapping.height_mm ? splitHeaderUnit(options.mapping.height_mm).unit : null;
@@ -320,7 +325,14 @@ export function planImport(reader: ImportReader, options: ImportOptions, existin
   // ── 1. Each row on its own ──
   const values: RowValues[] = [];
   for (const { row, cells } of reader.rows) {
-    const text = (field: ImportField) => cell(cells, field);
+    unstorable = new Set();
+    for (const field of reader.fields) {
+      if (cell(cells, field).includes('\u0000')) {
+        issue(row, field, 'Contains a NUL character, which cannot be stored; remove it from the cell');
+        unstorable.add(field);
+      }
+    }
+    const text = (field: ImportField) => (unstorable.has(field) ? '' : cell(cells, field));
     const dateOf = (field: ImportField): string | null => {
       const t = text(field);
       if (!t) return null;

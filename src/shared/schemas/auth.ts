@@ -18,6 +18,9 @@ export const newPasswordSchema = z
   .min(PASSWORD_MIN_LENGTH, `Use at least ${PASSWORD_MIN_LENGTH} characters`)
   .max(PASSWORD_MAX_LENGTH, `Use at most ${PASSWORD_MAX_LENGTH} characters`);
 
+/** A page of the app a mailed sign-up link brings the new account back to: an invitation or a hand-off. */
+export const returnPathSchema = z.string().regex(/^\/(invite|handoff)\/[A-Za-z0-9_-]{43}$/, 'Return only to an invitation or hand-off page');
+
 export const signUpInputSchema = z.object({
   email: emailSchema,
   password: newPasswordSchema,
@@ -26,7 +29,14 @@ export const signUpInputSchema = z.object({
     .trim()
     .min(1, 'Enter your name')
     .max(80, 'A name has at most 80 characters'),
+  next: returnPathSchema.optional(),
 });
+
+/**
+ * POST /api/auth/sign-up's answer, the same whether the address is new or already has an account:
+ * the account is made when the link mailed to the address is followed.
+ */
+export const signUpRequestedSchema = z.object({ message: z.string(), email: z.string() });
 
 export const signInInputSchema = z.object({
   email: emailSchema,
@@ -51,6 +61,9 @@ export const meSchema = z.object({
   user: userSchema,
   collections: z.array(collectionSummarySchema),
 });
+
+/** POST /api/auth/sign-up/confirm's answer: the new account, signed in, and where to go next. */
+export const signUpConfirmedSchema = meSchema.extend({ next: returnPathSchema.nullable() });
 
 /** GET /api/session: who is signed in in this browser, or `me: null`. */
 export const sessionSchema = z.object({ me: meSchema.nullable() });

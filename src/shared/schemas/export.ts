@@ -152,11 +152,29 @@ export const exportPhotoSchema = z.object({
   file: z.string().max(200),
 });
 
-const documentShape = z.object({
+/** The document's fields other than its lists of records. */
+export const exportHeaderSchema = z.object({
   format: z.literal(EXPORT_FORMAT, { error: `Not a Sympodia export (expected format "${EXPORT_FORMAT}")` }),
   version: z.literal(EXPORT_VERSION, { error: `This server reads export version ${EXPORT_VERSION}` }),
   exportedAt: z.iso.datetime({ offset: true, error: 'Expected the export time as an ISO date-time' }),
   collection: exportCollectionSchema,
+});
+
+/** Each list of records and the schema of one of its records; a restore reads them one record at a time. */
+export const EXPORT_LISTS = {
+  areas: exportAreaSchema,
+  plants: exportPlantSchema,
+  leads: exportLeadSchema,
+  measurements: exportMeasurementSchema,
+  bloomRecords: exportBloomSchema,
+  careEntries: exportCareSchema,
+  photos: exportPhotoSchema,
+} as const;
+export type ExportListName = keyof typeof EXPORT_LISTS;
+/** Lists a document may leave out (older exports had no photos). */
+export const OPTIONAL_EXPORT_LISTS: ReadonlySet<ExportListName> = new Set(['photos']);
+
+const documentShape = exportHeaderSchema.extend({
   areas: z.array(exportAreaSchema),
   plants: z.array(exportPlantSchema),
   leads: z.array(exportLeadSchema),
@@ -271,11 +289,16 @@ function checkReferences(doc: Shape, issues: Issue[]): void {
 /** The most reference problems reported at once; a file that breaks more is broken throughout. */
 const MAX_REFERENCE_ISSUES = 20;
 
-/** The whole export document: field rules per record, then the references between records. */
-export const exportDocumentSchema = documentShape.superRefine((doc, ctx) => {
+/** The references between a document's records that break a rule, at most 20, as paths and messages. */
+export function exportReferenceIssues(doc: z.output<typeof documentShape>): Issue[] {
   const issues: Issue[] = [];
   checkReferences(doc, issues);
-  for (const issue of issues.slice(0, MAX_REFERENCE_ISSUES)) ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message });
+  return issues.slice(0, MAX_REFERENCE_ISSUES);
+}
+
+/** The whole export document: field rules per record, then the references between records. */
+export const exportDocumentSchema = documentShape.superRefine((doc, ctx) => {
+  for (const issue of exportReferenceIssues(doc)) ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message });
 });
 
 /** Query of the zip export: the photos' display files go in unless asked to leave them out. */

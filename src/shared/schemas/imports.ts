@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { FILE_ENCODINGS } from '../import/encoding';
 import { IMPORT_FIELDS, LENGTH_UNITS } from '../import/fields';
 
 /** The largest spreadsheet accepted, in bytes (413 beyond). */
@@ -62,6 +63,8 @@ export const importCountsSchema = z.object({
 
 /** The dry run: what the import would write, and every reason it cannot yet. Nothing is stored. */
 export const importCheckSchema = z.object({
+  /** The character encoding the file was read in (src/shared/import/encoding.ts). */
+  encoding: z.enum(FILE_ENCODINGS),
   headers: z.array(z.string()),
   mapping: columnMappingSchema,
   dateOrder: z.object({ detected: dateOrderSchema.nullable(), used: dateOrderSchema.nullable(), needed: z.boolean() }),

@@ -27,6 +27,8 @@ export const acceptedInvitationSchema = z.object({ collectionId: z.uuid(), role:
 /** A token from a mailed link: base64url of 32 bytes is 43 characters. */
 export const mailTokenSchema = z.string().regex(/^[A-Za-z0-9_-]{43}$/, 'This link is not complete; copy the whole link from the mail');
 
+export const confirmSignUpInputSchema = z.object({ token: mailTokenSchema });
+
 export const requestPasswordResetInputSchema = z.object({ email: emailSchema });
 export const completePasswordResetInputSchema = z.object({ token: mailTokenSchema, password: newPasswordSchema });
 

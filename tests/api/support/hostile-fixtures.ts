@@ -51,6 +51,7 @@ export const unknownParam = () => randomUUID();
 export function validBodies(world: HostileWorld): Record<string, () => Record<string, unknown>> {
   return {
     'POST /api/auth/sign-up': () => buildSignUp(),
+    'POST /api/auth/sign-up/confirm': () => ({ token: 'C'.repeat(43) }),
     'POST /api/auth/sign-in': () => ({ email: 'nobody@example.test', password: 'not-a-real-one' }),
     'POST /api/auth/password-reset': () => ({ email: 'nobody@example.test' }),
     'POST /api/auth/password-reset/complete': () => ({ token: 'C'.repeat(43), password: 'pseudobulb-ladder-77' }),

@@ -1,4 +1,5 @@
 import http from 'node:http';
+import { gzipSync } from 'node:zlib';
 import { sql } from 'drizzle-orm';
 import fc from 'fast-check';
 import { testDb } from './database';
@@ -229,8 +230,18 @@ export interface HostileRequest {
   label: string;
 }
 
-/** JSON bodies that are not JSON, or not what express.json will take. */
-export const RAW_BODIES: { contentType: string; body: string | Buffer }[] = [
+const gzipOfJson = gzipSync(Buffer.from(JSON.stringify({ name: 'Windowsill', email: 'x@example.test' })));
+
+/**
+ * JSON bodies that are not JSON, or not what express.json will take, and ones whose
+ * Content-Encoding they do not keep (not compressed at all, or cut short).
+ */
+export const RAW_BODIES: { contentType: string; body: string | Buffer; encoding?: string }[] = [
+  { contentType: 'application/json', encoding: 'gzip', body: Buffer.from('{"name":"not gzip at all"}') },
+  { contentType: 'application/json', encoding: 'gzip', body: gzipOfJson.subarray(0, gzipOfJson.length - 9) },
+  { contentType: 'application/json', encoding: 'br', body: Buffer.from('not brotli either, just text') },
+  { contentType: 'application/json', encoding: 'deflate', body: Buffer.from([0x78, 0x9c, 0xff, 0xff, 0x00, 0x01, 0x02]) },
+
   { contentType: 'application/json', body: '{"name": ' },
   { contentType: 'application/json', body: '{"__proto__": {"polluted": true}' },
   { contentType: 'application/json', body: "{'single': 'quotes'}" },
@@ -241,6 +252,15 @@ export const RAW_BODIES: { contentType: string; body: string | Buffer }[] = [
   { contentType: 'application/json', body: '['.repeat(20_000) },
   { contentType: 'application/json; charset=utf-32', body: '{}' },
   { contentType: 'application/json', body: JSON.stringify({ filler: 'x'.repeat(120_000) }) },
+];
+
+/**
+ * CSV bodies whose Content-Encoding they do not keep, for the routes that read CSV (express.json
+ * passes them by, so a route that reads no body would act on one).
+ */
+export const UNDECODABLE_CSV: { contentType: string; body: Buffer; encoding: string }[] = [
+  { contentType: 'text/csv', encoding: 'gzip', body: Buffer.from('tag,genus\nA-1,C.\n') },
+  { contentType: 'text/csv', encoding: 'br', body: Buffer.from([0x1b, 0xff, 0xff, 0xff, 0x00]) },
 ];
 
 /** Top-level JSON values a route expecting an object must refuse. */

@@ -7,6 +7,8 @@ import { createSmtpMailer } from '../../../server/mail/mailer';
 import { createRateLimits } from '../../../server/middleware/rate-limit';
 import { createWeatherClient, type WeatherClient } from '../../../server/weather/client';
 import { startFakeWeather, type FakeWeatherServer } from '../../../server/weather/fake-weather';
+import { buildSignUp } from '../../factories/users';
+import { mailTo } from '../../factories/mail';
 import { testDb } from './database';
 
 /** Limits loose enough that ordinary tests never meet them; rate-limit tests pass their own. */
@@ -89,4 +91,25 @@ export function browser(url: string, cookie?: string) {
       return sessionCookie;
     },
   };
+}
+
+/** The sign-up link in a mail: `/welcome/<token>`. */
+export function signUpTokenIn(text: string): string {
+  const token = /\/welcome\/([A-Za-z0-9_-]{43})/.exec(text)?.[1];
+  if (!token) throw new Error(`no sign-up link in: ${text.slice(0, 300)}`);
+  return token;
+}
+
+/**
+ * Signs up as a person does: the sign-up (202), the link from the fake mailbox, and the
+ * confirmation (201), after which `person` is signed in as the new account.
+ */
+export async function signUpThroughMail(server: TestServer, input: { email: string; password: string; displayName: string; next?: string } = buildSignUp(), person = browser(server.url)) {
+  const seen = server.mail.to(input.email.trim().toLowerCase()).length;
+  const requested = await person.post('/api/auth/sign-up', input);
+  if (requested.status !== 202) throw new Error(`sign-up answered ${requested.status}: ${JSON.stringify(requested.body)}`);
+  const mails = await mailTo(server.mail, input.email.trim().toLowerCase(), seen + 1);
+  const confirmed = await person.post('/api/auth/sign-up/confirm', { token: signUpTokenIn(mails[seen].text) });
+  if (confirmed.status !== 201) throw new Error(`sign-up confirmation answered ${confirmed.status}: ${JSON.stringify(confirmed.body)}`);
+  return { person, confirmed, input };
 }

@@ -13,6 +13,11 @@ describe('escapeFormula', () => {
     ['\r=1+1', "'\r=1+1"],
     // A formula on the first line of a note with more lines is still caught.
     ['=1+1\nsecond line', "'=1+1\nsecond line"],
+    // Full-width forms, which some spreadsheet programs treat as formulas too.
+    ['＝HYPERLINK("http://evil.example/")', `'＝HYPERLINK("http://evil.example/")`],
+    ['＋1', "'＋1"],
+    ['－2', "'－2"],
+    ['＠SUM(A1)', "'＠SUM(A1)"],
   ])('puts a single quote before %j', (input, expected) => {
     expect(escapeFormula(input)).toBe(expected);
   });
@@ -37,12 +42,12 @@ describe('toCsv', () => {
   });
 
   it('escapes formula-like text, and a spreadsheet import reads back the escaped text unchanged', () => {
-    const notes = ['=HYPERLINK("http://evil.example/","x")', '+1', '-2+3', '@SUM(A1)', '\tcmd', '\r=1', '=1\nline two', 'plain, with a comma'];
+    const notes = ['=HYPERLINK("http://evil.example/","x")', '＝1+1', '+1', '-2+3', '@SUM(A1)', '\tcmd', '\r=1', '=1\nline two', 'plain, with a comma'];
     const csv = toCsv(['note', 'height_mm'], notes.map((note, i) => ({ note, height_mm: -i })));
     const parsed = Papa.parse<Record<string, string>>(csv, { header: true, skipEmptyLines: true });
     expect(parsed.errors).toEqual([]);
     expect(parsed.meta.fields).toEqual(['note', 'height_mm']);
-    expect(parsed.data.map((r) => r.note)).toEqual(notes.map((n) => (/^[=+\-@\t\r]/.test(n) ? `'${n}` : n)));
+    expect(parsed.data.map((r) => r.note)).toEqual(notes.map((n) => (/^[=+\-@\t\r＝＋－＠]/.test(n) ? `'${n}` : n)));
     expect(parsed.data.map((r) => r.height_mm)).toEqual(notes.map((_, i) => String(-i)));
   });
 

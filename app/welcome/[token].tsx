@@ -1,0 +1,1 @@
+export { WelcomeScreen as default } from '@/features/auth/welcome-screen';
