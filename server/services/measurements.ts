@@ -82,6 +82,10 @@ export async function recordMeasurement(db: Database, member: Member, leadId: st
   assertMeasurementDate(input.date, lead.firstSeen);
   const { date, ...rest } = input;
   return db.transaction(async (tx) => {
+    await lockLeadDay(tx, lead.id);
+    // A copy of this very entry that won the lock first is the answer, not a second look.
+    const stored = input.clientKey ? await byClientKey(tx, member.collectionId, lead.id, input.clientKey) : undefined;
+    if (stored) return stored;
     await refuseSecondOnDate(tx, lead, date);
     return insertOnce(tx, member, lead.id, { ...rest, measuredOn: date, clientKey: input.clientKey ?? null });
   });
@@ -89,11 +93,15 @@ export async function recordMeasurement(db: Database, member: Member, leadId: st
 
 /**
  * One look per lead and day: a second measurement on a date that has one is refused with 409
- * `measurement_exists` and the stored one (to edit instead). Writers of one lead take turns on a
- * transaction lock, so two saves racing for the same day cannot both land.
+ * `measurement_exists` and the stored one (to edit instead). Run under `lockLeadDay`, so two
+ * saves racing for the same day cannot both land.
  */
+/** Writers of one lead's looks take turns until their transaction ends. */
+async function lockLeadDay(tx: Executor, leadId: string) {
+  await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`measurement-day:${leadId}`}))`);
+}
+
 async function refuseSecondOnDate(tx: Executor, lead: { id: string; label: string }, date: string, except?: string) {
-  await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`measurement-day:${lead.id}`}))`);
   const [existing] = await tx
     .select()
     .from(measurements)
@@ -124,7 +132,9 @@ export async function markSheath(db: Database, member: Member, leadId: string, i
     throw fieldError('sheath', `${plant?.genus ?? 'This genus'} does not flower from a sheath; mark buds or a spike as seen instead`);
   }
   return db.transaction(async (tx) => {
-    await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`measurement-day:${lead.id}`}))`);
+    await lockLeadDay(tx, lead.id);
+    const stored = input.clientKey ? await byClientKey(tx, member.collectionId, lead.id, input.clientKey) : undefined;
+    if (stored) return stored;
     const [sameDay] = await tx
       .select()
       .from(measurements)
