@@ -26,7 +26,7 @@ import { createWeatherClient } from '../../server/weather/client';
 import { startFakeWeather } from '../../server/weather/fake-weather';
 
 const DATABASE = 'sympodia_snapshot';
-const TIME_KEYS = new Set(['createdAt', 'updatedAt', 'exportedAt', 'answeredAt', 'expiresAt', 'uploadedAt', 'receivedAt']);
+const TIME_KEYS = new Set(['createdAt', 'updatedAt', 'exportedAt', 'answeredAt', 'expiresAt', 'uploadedAt', 'receivedAt', 'fetchedAt']);
 
 async function main() {
   const out = process.argv[2];
