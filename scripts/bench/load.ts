@@ -6,7 +6,7 @@
  * with the demo collection; signs in as the demo grower; then runs one autocannon instance per
  * route at the same time (50 connections in all, loopback only, at most 60 s):
  *   GET attention (Today), GET a plant, GET a lead's forecast, POST a new measurement (a fresh
- *   client key each time, valid body, spread over the current season's leads), and GET /api/health
+ *   client key each time, valid body, spread over the current season's leads, each on a day that lead has no look for yet, since a lead takes one a day), and GET /api/health
  *   as the ceiling (no session, one `select 1`) in the same run.
  * Prints requests, req/s, p50 and p99 per route, errors and non-2xx, and checks that the
  * measurements table grew by exactly the number of acknowledged writes. Exits 1 on any error,
@@ -22,6 +22,7 @@ import { createDatabase } from '../../db/client';
 import { runMigrations } from '../../db/migrate';
 import { seedDemo } from '../../db/seed';
 import { DEMO_ACCOUNTS, DEMO_COLLECTION_NAME, DEMO_PASSWORD } from '../../db/seed/demo-accounts';
+import { addDays } from '../../src/domain/dates';
 import { collections, leads, measurements } from '../../db/schema';
 import { ROOT, signIn, startServerProcess, type ServerProcess } from '../../tests/api/support/processes';
 
@@ -95,12 +96,12 @@ async function main() {
     const [collection] = await db.select({ id: collections.id }).from(collections).where(eq(collections.name, DEMO_COLLECTION_NAME));
     // Leads of the season in progress that were first seen by today: valid targets for a new measurement.
     const current = await db
-      .select({ id: leads.id, plantId: leads.plantId, season: leads.season })
+      .select({ id: leads.id, plantId: leads.plantId, season: leads.season, firstSeen: leads.firstSeen })
       .from(leads)
       .where(and(eq(leads.collectionId, collection.id), eq(leads.status, 'growing'), sql`${leads.firstSeen} <= ${today}`))
       .orderBy(sql`${leads.season} desc`, leads.id);
     const latestSeason = current[0]?.season;
-    const writeTargets = current.filter((l) => l.season === latestSeason).slice(0, 8);
+    const writeTargets = current.filter((l) => l.season === latestSeason).slice(0, 16);
     if (writeTargets.length === 0) throw new Error('the demo collection has no growing lead to measure');
     const forecastLead = writeTargets[0];
 
@@ -123,6 +124,20 @@ async function main() {
     }
     const [{ before }] = await db.select({ before: sql<number>`count(*)::int` }).from(measurements);
 
+    // A lead takes one look a day, so each write fills a day the lead has no look for yet, from
+    // the day it was first seen to today (newest first).
+    const taken = await db
+      .select({ leadId: measurements.leadId, date: measurements.measuredOn })
+      .from(measurements)
+      .where(inArray(measurements.leadId, writeTargets.map((l) => l.id)));
+    const freeDays = new Map(
+      writeTargets.map((lead) => {
+        const used = new Set(taken.filter((t) => t.leadId === lead.id).map((t) => t.date));
+        const days: string[] = [];
+        for (let d = today; d >= lead.firstSeen; d = addDays(d, -1)) if (!used.has(d)) days.push(d);
+        return [lead.id, days];
+      }),
+    );
     let written = 0;
     const acknowledgedIds: string[] = [];
     const writeRequests: autocannon.Request[] = writeTargets.map((lead) => ({
@@ -134,7 +149,9 @@ async function main() {
       },
       setupRequest: (req) => {
         written += 1;
-        const body = { date: today, heightMm: 20 + (written % 180), leafCount: 2 + (written % 3), sheath: 'none', clientKey: randomUUID() };
+        const date = freeDays.get(lead.id)!.shift();
+        if (!date) throw new Error(`lead ${lead.id} has no day left without a look: shorten the run`);
+        const body = { date, heightMm: 20 + (written % 180), leafCount: 2 + (written % 3), sheath: 'none', clientKey: randomUUID() };
         return { ...req, body: JSON.stringify(body) };
       },
     }));
