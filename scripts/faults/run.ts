@@ -27,8 +27,9 @@ import sharp from 'sharp';
 import { createDatabase } from '../../db/client';
 import { runMigrations } from '../../db/migrate';
 import { seedDemo } from '../../db/seed';
+import { addDays } from '../../src/domain/dates';
 import { DEMO_ACCOUNTS, DEMO_COLLECTION_NAME, DEMO_PASSWORD } from '../../db/seed/demo-accounts';
-import { collections, leads, measurements, photos } from '../../db/schema';
+import { collections, leads, measurements, photos, plants } from '../../db/schema';
 import { ROOT, signIn, startServerProcess, type ServerProcess } from '../../tests/api/support/processes';
 
 const quick = process.argv.includes('--quick');
@@ -84,19 +85,50 @@ interface Target {
   collectionId: string;
   plantId: string;
   leadIds: string[];
+  /** A day the lead has no look for yet (a lead takes one look a day), newest first; each is handed out once. */
+  freeDay: (leadId: string) => string;
+  /** Gives a day back when the write for it was refused (503) and stored nothing. */
+  releaseDay: (leadId: string, day: string) => void;
 }
 
 async function findTarget(): Promise<Target> {
   const database = createDatabase(DATABASE_URL, { max: 1 });
   try {
     const [collection] = await database.db.select({ id: collections.id }).from(collections).where(eq(collections.name, DEMO_COLLECTION_NAME));
+    // Leads of the fault run's own, first seen long ago, so a lead's one look a day leaves
+    // thousands of free days to write on (the demo's growing leads have a few weeks each).
+    const first = addDays(today(), -3000);
+    const [plant] = await database.db
+      .insert(plants)
+      .values({ collectionId: collection.id, tag: 'FAULT-RUN', genus: 'C.', epithet: 'Long Watch' })
+      .returning({ id: plants.id });
+    await database.db.insert(leads).values(
+      Array.from({ length: 6 }, (_, i) => ({ collectionId: collection.id, plantId: plant.id, season: Number(first.slice(0, 4)), label: `F${i + 1}`, firstSeen: first, status: 'growing' as const })),
+    );
     const growing = await database.db
-      .select({ id: leads.id, plantId: leads.plantId })
+      .select({ id: leads.id, plantId: leads.plantId, firstSeen: leads.firstSeen })
       .from(leads)
-      .where(and(eq(leads.collectionId, collection.id), eq(leads.status, 'growing'), sql`${leads.firstSeen} <= ${today()}`))
-      .orderBy(sql`${leads.season} desc`, leads.id)
-      .limit(6);
-    return { collectionId: collection.id, plantId: growing[0].plantId, leadIds: growing.map((l) => l.id) };
+      .where(eq(leads.plantId, plant.id))
+      .orderBy(leads.label);
+    const taken = await database.db
+      .select({ leadId: measurements.leadId, date: measurements.measuredOn })
+      .from(measurements)
+      .where(inArray(measurements.leadId, growing.map((l) => l.id)));
+    const free = new Map(
+      growing.map((lead) => {
+        const used = new Set(taken.filter((t) => t.leadId === lead.id).map((t) => t.date));
+        const days: string[] = [];
+        for (let d = today(); d >= lead.firstSeen; d = addDays(d, -1)) if (!used.has(d)) days.push(d);
+        return [lead.id, days];
+      }),
+    );
+    const freeDay = (leadId: string) => {
+      const day = free.get(leadId)?.shift();
+      if (!day) throw new Error(`lead ${leadId} has no day left without a look`);
+      return day;
+    };
+    const releaseDay = (leadId: string, day: string) => void free.get(leadId)?.unshift(day);
+    return { collectionId: collection.id, plantId: growing[0].plantId, leadIds: growing.map((l) => l.id), freeDay, releaseDay };
   } finally {
     await database.close();
   }
@@ -131,12 +163,21 @@ async function call(url: string, route: string, init: RequestInit, timeoutMs = 1
     }
     return { started, ms: Date.now() - started, status: res.status, code, message, route };
   } catch (error) {
-    return { started, ms: Date.now() - started, status: 'no answer', code: (error as Error).name, route };
+    const cause = (error as Error & { cause?: { code?: string } }).cause?.code;
+    return { started, ms: Date.now() - started, status: 'no answer', code: cause ? `${(error as Error).name} ${cause}` : (error as Error).name, route };
   }
 }
 
-function measurementBody(clientKey: string, n: number) {
-  return JSON.stringify({ date: today(), heightMm: 30 + (n % 150), leafCount: 3, sheath: 'none', clientKey });
+function measurementBody(clientKey: string, n: number, date: string) {
+  return JSON.stringify({ date, heightMm: 30 + (n % 150), leafCount: 3, sheath: 'none', clientKey });
+}
+
+/** A write on a day its lead has no look for; a refused write (503: nothing stored) gives the day back. */
+async function writeOnFreeDay(target: Target, leadId: string, send: (day: string) => Promise<Answer>): Promise<Answer> {
+  const day = target.freeDay(leadId);
+  const answer = await send(day);
+  if (answer.status === 503) target.releaseDay(leadId, day);
+  return answer;
 }
 
 /** (a) PostgreSQL stopped and started again under load. */
@@ -157,11 +198,13 @@ async function databaseOutage(target: Target, cookie: string, server: ServerProc
           : kind === 1
             ? await call(`${c}/plants/${target.plantId}`, 'GET plant', { headers: { cookie } })
             : kind === 2
-              ? await call(`${c}/leads/${target.leadIds[n % target.leadIds.length]}/measurements`, 'POST measurement', {
-                  method: 'POST',
-                  headers: { cookie, origin: base, 'content-type': 'application/json' },
-                  body: measurementBody(randomUUID(), n),
-                })
+              ? await writeOnFreeDay(target, target.leadIds[n % target.leadIds.length], (day) =>
+                  call(`${c}/leads/${target.leadIds[n % target.leadIds.length]}/measurements`, 'POST measurement', {
+                    method: 'POST',
+                    headers: { cookie, origin: base, 'content-type': 'application/json' },
+                    body: measurementBody(randomUUID(), n, day),
+                  }),
+                )
               : await call(`${base}/api/health`, 'GET health', {});
       answers.push(answer);
       // A failing route answers at once; pace the loop so the log stays readable.
@@ -240,7 +283,12 @@ async function databaseOutage(target: Target, cookie: string, server: ServerProc
     answers.every((a) => a.status !== 500 && a.status !== 'no answer'),
     `no 500 and no unanswered request at any time (${answers.filter((a) => a.status === 500 || a.status === 'no answer').length} seen)`,
   );
-  check(server.child.exitCode === null && server.child.signalCode === null, 'the server process stayed up');
+  const stayedUp = server.child.exitCode === null && server.child.signalCode === null;
+  check(stayedUp, 'the server process stayed up');
+  if (!stayedUp) {
+    const words = server.output().split('\n').filter((line) => line.trim() && !line.startsWith('{"level":50'));
+    console.log(`  the server's last words:\n${words.slice(-30).join('\n')}`);
+  }
   check(recoveredAt !== undefined && recoveredAt - startAt <= RECOVERY_BOUND_MS, `2xx again ${recoveredAt ? `${recoveredAt - startAt} ms` : 'never'} after PostgreSQL was back (bound ${RECOVERY_BOUND_MS} ms)`);
   const reads = after.filter((a) => a.route.startsWith('GET'));
   const writes = after.filter((a) => !a.route.startsWith('GET'));
@@ -270,7 +318,7 @@ async function killDuringWrites(target: Target): Promise<void> {
   const cookie = await signIn(server.url, grower.email, DEMO_PASSWORD);
   const base = server.url;
   const c = `${base}/api/collections/${target.collectionId}`;
-  const sent = new Map<string, { n: number; leadId: string; status: number | 'no answer' }>();
+  const sent = new Map<string, { n: number; leadId: string; date: string; status: number | 'no answer' }>();
   let killed = false;
   let n = 0;
   const worker = async () => {
@@ -278,12 +326,12 @@ async function killDuringWrites(target: Target): Promise<void> {
       n += 1;
       const key = randomUUID();
       const leadId = target.leadIds[n % target.leadIds.length];
-      const entry = { n, leadId, status: 'no answer' as number | 'no answer' };
+      const entry = { n, leadId, date: target.freeDay(leadId), status: 'no answer' as number | 'no answer' };
       sent.set(key, entry);
       const a = await call(`${c}/leads/${leadId}/measurements`, 'POST measurement', {
         method: 'POST',
         headers: { cookie, origin: base, 'content-type': 'application/json' },
-        body: measurementBody(key, entry.n),
+        body: measurementBody(key, entry.n, entry.date),
       });
       entry.status = a.status;
     }
@@ -325,7 +373,7 @@ async function killDuringWrites(target: Target): Promise<void> {
       return call(`${c}/leads/${entry.leadId}/measurements`, 'POST measurement', {
         method: 'POST',
         headers: { cookie, origin: base, 'content-type': 'application/json' },
-        body: measurementBody(key, entry.n),
+        body: measurementBody(key, entry.n, entry.date),
       });
     };
     // The session was written before the kill, so the same cookie still works on the new process.
