@@ -1,3 +1,4 @@
+import type { Page } from '@playwright/test';
 import { plantWithHistory, pastSeason } from './support/history';
 import { currentCollectionId, signInAs } from './support/session';
 import { expect, keepScreenshot, test } from './support/fixtures';
@@ -72,7 +73,24 @@ test('an empty sheath moves the window later, lowers the chance and says why', a
   await expect(page.getByTestId('bloom-summary')).toContainText(WHEN_WORDS);
   await expect(page.getByTestId('bloom-summary')).toContainText('it may still bud later, or wait for next season');
   await keepScreenshot(page, 'lead-empty-sheath', info.project.name);
+  await sameStoryOnTodayAndCalendar(page, collectionId, tag, 'B3', leadIds.B3);
 });
+
+/** Today (when the engine lists the lead) and the Calendar say the lead's one story. */
+async function sameStoryOnTodayAndCalendar(page: Page, collectionId: string, tag: string, label: string, leadId: string) {
+  const forecast = await (await page.request.get(`/api/collections/${collectionId}/leads/${leadId}/forecast`)).json();
+  const attention = await (await page.request.get(`/api/collections/${collectionId}/attention`)).json();
+  const listed = attention.items.filter((i: { target: { leadId: string } }) => i.target.leadId === leadId);
+  await page.getByTestId('tab-today').click();
+  await expect(page.getByTestId('attention-list')).toBeVisible();
+  for (const item of listed) await expect(page.getByTestId(`attention-${item.kind === 'stalled' ? 'aborted' : item.kind}`).getByTestId(`attention-item-${tag}-${label}`)).toContainText(forecast.story.chip.label);
+  await page.getByTestId('tab-calendar').click();
+  const row = page.getByTestId(`calendar-row-${tag}-${label}`);
+  if (forecast.bloom.firstOpen) {
+    await expect(row.getByTestId('calendar-row-story')).toHaveText(forecast.story.bloom);
+    await expect(row).toContainText(forecast.story.chip.label);
+  } else await expect(row).toHaveCount(0);
+}
 
 test('a Stanhopea is offered no sheath marks and no sheath field, but can be marked in bud', async ({ page }, info) => {
   await signInAs(page, 'grower');
@@ -90,6 +108,7 @@ test('a Stanhopea is offered no sheath marks and no sheath field, but can be mar
   await page.getByTestId('mark-buds-visible').click();
   await expect(page.getByTestId('lead-story-chip')).toHaveText('Buds or spike visible');
   await expect(page.getByTestId('bloom-summary')).toContainText(/First flower about \d{1,2} [A-Z][a-z]{2} \d{4}/);
+  await sameStoryOnTodayAndCalendar(page, collectionId, tag, 'S1', leadIds.S1);
 });
 
 test('an entry that looks wrong asks first; a second look on one day is refused with the reason', async ({ page }) => {
