@@ -9,6 +9,8 @@ ensure_node_modules() {
     echo "[setup] installing npm packages (npm ci)"
     (cd "$root" && npm ci --no-audit --no-fund)
   fi
+  # Patches to packages (patches/) apply on install; this catches a patch added since (idempotent).
+  (cd "$root" && node_modules/.bin/patch-package >/dev/null)
 }
 
 # Debian's Chromium for the browser tests; Playwright never downloads its own.
