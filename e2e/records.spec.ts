@@ -79,8 +79,14 @@ test('Rounds: three plants measured with the network cut are each stored exactly
   await signInAs(page, 'grower');
   const collectionId = await currentCollectionId(page);
   const rounds = await (await page.request.get(`/api/collections/${collectionId}/rounds`)).json();
-  const measurable = (rounds.stops as Array<{ leads: Array<{ id: string; label: string; status: string }> }>).map((s) =>
-    s.leads.filter((l) => l.status === 'growing' || l.status === 'mature'),
+  // A lead takes one look a day: leads already looked at today (by the other browser project) show what was recorded instead of a form.
+  const today = await page.evaluate(() => {
+    const d = new Date();
+    return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+  });
+  type RoundLead = { id: string; label: string; status: string; latest: { date: string } | null };
+  const measurable = (rounds.stops as Array<{ leads: RoundLead[] }>).map((s) =>
+    s.leads.filter((l) => (l.status === 'growing' || l.status === 'mature') && l.latest?.date !== today),
   );
 
   await page.getByTestId('tab-rounds').click();
@@ -90,7 +96,7 @@ test('Rounds: three plants measured with the network cut are each stored exactly
 
   await context.setOffline(true);
   const marker = `walk-${info.project.name}-${Date.now()}`;
-  const saved: Array<{ leadId: string; note: string }> = [];
+  const saved: Array<{ leadId: string; label: string; note: string }> = [];
   for (let stop = 0; stop < measurable.length && saved.length < 3; stop += 1) {
     const lead = measurable[stop][0];
     if (lead) {
@@ -98,7 +104,7 @@ test('Rounds: three plants measured with the network cut are each stored exactly
       await page.getByTestId(`rounds-${lead.label}-note`).fill(note);
       await page.getByTestId(`rounds-${lead.label}-save`).click();
       await expect(page.getByTestId('outbox-status')).toContainText('kept on this device');
-      saved.push({ leadId: lead.id, note });
+      saved.push({ leadId: lead.id, label: lead.label, note });
     }
     await page.getByTestId('rounds-next').click();
   }
@@ -117,6 +123,13 @@ test('Rounds: three plants measured with the network cut are each stored exactly
     const matching = (lead.measurements as Array<{ note: string | null }>).filter((m) => m.note === note);
     expect(matching, `lead ${leadId}`).toHaveLength(1);
   }
+
+  // Back at the last plant measured, the lead shows today's look and no second form.
+  const last = saved[saved.length - 1];
+  await page.getByTestId('rounds-previous').click();
+  await expect(page.getByTestId(`rounds-${last.label}-done`)).toContainText('Looked at today');
+  await expect(page.getByTestId(`rounds-${last.label}-save`)).toHaveCount(0);
+  await page.getByTestId('rounds-next').click();
 
   // Leaving and coming back resumes at the same plant.
   const here = await page.getByTestId('rounds-progress').textContent();

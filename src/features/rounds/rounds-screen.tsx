@@ -8,7 +8,8 @@ import { QueryState } from '@/components/query-state';
 import { Screen } from '@/components/screen';
 import { Text } from '@/components/text';
 import { storage } from '@/lib/storage';
-import type { LengthUnit } from '@/lib/units';
+import { formatLength, type LengthUnit } from '@/lib/units';
+import { useToday } from '@/lib/use-today';
 import { newClientKey } from '@/lib/uuid';
 import { plantDisplayName } from '@/shared/plant-name';
 import type { RoundStop } from '@/shared/schemas/records';
@@ -58,6 +59,7 @@ function Walk({ stops, collectionId, canWrite, units, onEditOrder }: { stops: Ro
   useEffect(() => storage.set(positionKey(collectionId), String(index)), [collectionId, index]);
 
   const stop = stops[Math.min(index, stops.length - 1)];
+  const today = useToday();
   const leads = stop.leads.filter((l) => l.status === 'growing' || l.status === 'mature');
   const go = (delta: number) => setIndex((i) => Math.max(0, Math.min(stops.length - 1, i + delta)));
 
@@ -89,7 +91,21 @@ function Walk({ stops, collectionId, canWrite, units, onEditOrder }: { stops: Ro
                 {stories.data.get(lead.id)!.flag}
               </Text>
             ) : null}
-            {canWrite ? (
+            {canWrite && lead.latest?.date === today ? (
+              // A lead takes one look a day: today's is changed on the lead's page, not sent twice.
+              <View style={styles.lookedAt} testID={`rounds-${lead.label}-done`}>
+                <Text>
+                  Looked at today: {formatLength(lead.latest.heightMm, units)}
+                  {lead.latest.leafCount !== null ? `, ${lead.latest.leafCount} ${lead.latest.leafCount === 1 ? 'leaf' : 'leaves'}` : ''}.
+                </Text>
+                <Button
+                  label="Change today's entry"
+                  tone="secondary"
+                  onPress={() => router.push(`/plants/${stop.plant.id}/leads/${lead.id}`)}
+                  testID={`rounds-${lead.label}-change`}
+                />
+              </View>
+            ) : canWrite ? (
               <MeasurementForm
                 last={lead.latest}
                 units={units}
@@ -178,6 +194,7 @@ const styles = StyleSheet.create({
   outbox: { gap: spacing.sm, padding: spacing.md, borderRadius: radius.md, backgroundColor: colors.warningSoft },
   refused: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm, flexWrap: 'wrap' },
   lead: { gap: spacing.md, paddingTop: spacing.md, borderTopWidth: 1, borderTopColor: colors.borderSubtle },
+  lookedAt: { gap: spacing.sm },
   nav: { flexDirection: 'row', gap: spacing.md },
   navButton: { flex: 1, minHeight: 56 },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },
